@@ -1,0 +1,374 @@
+#include "checker/loops/gate_loop.h"
+
+#include <boost/graph/adjacency_list.hpp>
+
+#include <algorithm>
+#include <unordered_map>
+#include <unordered_set>
+
+namespace gateloop {
+
+namespace {
+
+// Bounds keep the walk linear in practice: real gate paths have one to four series elements, and a
+// net with hundreds of branches is a supply rail, not part of a gate loop.
+constexpr std::size_t kMaxPathElements = 8;
+constexpr std::size_t kMaxPathsPerSwitch = 64;
+
+struct SeriesEdge {
+  ComponentId component = kNone;
+};
+
+// Nets are vertices, two-pin series-capable elements (R, L, ferrite, diode) are edges.
+using SeriesGraph = boost::adjacency_list<boost::vecS, boost::vecS, boost::undirectedS,
+                                          boost::no_property, SeriesEdge>;
+
+struct PinRef {
+  ComponentId component;
+  std::uint16_t pin;
+};
+
+struct DriverOutput {
+  ComponentId driver;
+  std::string pin;
+  OutputKind kind;
+};
+
+bool isSeriesRole(LoopRole r) {
+  return r == LoopRole::Resistor || r == LoopRole::Inductor || r == LoopRole::Ferrite ||
+         r == LoopRole::Diode;
+}
+
+const Part *partOf(const Component &c, const PartLibrary &lib) {
+  return c.part == kNone ? nullptr : &lib.parts[c.part];
+}
+
+bool visible(const Component &c, const PartLibrary &lib) {
+  if (c.hidden) return false;
+  // A subcircuit instance without a part is only structure; its contents carry the circuit.
+  return !(c.kind == ElementKind::Subcircuit && c.part == kNone);
+}
+
+class Extractor {
+public:
+  Extractor(const Circuit &circuit, const PartLibrary &lib)
+      : circuit_(circuit), lib_(lib), graph_(circuit.nets().size()), pinsOnNet_(circuit.nets().size()) {
+    const auto &comps = circuit_.components();
+    roles_.resize(comps.size(), LoopRole::Other);
+    for (ComponentId id = 0; id < comps.size(); ++id) {
+      const Component &c = comps[id];
+      if (!visible(c, lib_)) continue;
+      roles_[id] = loopRole(c, lib_);
+      auto pins = circuit_.pins(c);
+      for (std::uint16_t p = 0; p < pins.size(); ++p) pinsOnNet_[pins[p]].push_back({id, p});
+      if (isSeriesRole(roles_[id]) && pins.size() == 2 && pins[0] != pins[1])
+        boost::add_edge(pins[0], pins[1], SeriesEdge{id}, graph_);
+      if (roles_[id] == LoopRole::Driver) indexDriverOutputs(id, c);
+    }
+  }
+
+  std::vector<GateLoop> run() {
+    std::vector<GateLoop> loops;
+    const auto &comps = circuit_.components();
+    for (ComponentId id = 0; id < comps.size(); ++id)
+      if (roles_[id] == LoopRole::Switch) loops.push_back(buildLoop(id));
+    pairHalfBridges(loops);
+    return loops;
+  }
+
+private:
+  void indexDriverOutputs(ComponentId id, const Component &c) {
+    const Part &part = lib_.parts[c.part];
+    static const std::pair<const char *, OutputKind> kRoles[] = {
+        {"out_source", OutputKind::Source}, {"out_sink", OutputKind::Sink}, {"out", OutputKind::Bidirectional}};
+    for (const auto &[role, kind] : kRoles) {
+      auto it = part.pins.find(role);
+      if (it == part.pins.end()) continue;
+      NetId n = circuit_.pinNet(c, it->second);
+      if (n != kNone) driverOutputs_[n].push_back({id, it->second, kind});
+    }
+  }
+
+  GateLoop buildLoop(ComponentId id) {
+    const Component &sw = circuit_.component(id);
+    const Part &part = lib_.parts[sw.part];
+    GateLoop loop;
+    loop.id = sw.name;
+    loop.switchId = id;
+    loop.gateNet = rolePinNet(circuit_, sw, part, "gate");
+    loop.emitterNet = rolePinNet(circuit_, sw, part, "emitter");
+    loop.collectorNet = rolePinNet(circuit_, sw, part, "collector");
+    loop.kelvinNet = rolePinNet(circuit_, sw, part, "kelvin");
+    loop.kelvinConnected = loop.kelvinNet != kNone && netReachesOtherComponent(loop.kelvinNet, id);
+    loop.refNet = loop.kelvinConnected ? loop.kelvinNet : loop.emitterNet;
+    if (loop.gateNet == kNone) return loop;
+
+    walkPaths(loop);
+    collectShunts(loop);
+    if (!loop.paths.empty()) {
+      loop.driver = loop.paths.front().driver;
+      classifyDriverReference(loop);
+    }
+    return loop;
+  }
+
+  bool netReachesOtherComponent(NetId net, ComponentId self) const {
+    for (const auto &p : pinsOnNet_[net])
+      if (p.component != self) return true;
+    return false;
+  }
+
+  bool isTerminalNet(const GateLoop &loop, NetId n) const {
+    const Net &net = circuit_.netAt(n);
+    return net.ground || n == loop.refNet || n == loop.emitterNet || n == loop.collectorNet;
+  }
+
+  // Depth-first enumeration of simple paths from the gate through series elements to any net that
+  // holds a driver output pin.
+  void walkPaths(GateLoop &loop) {
+    std::vector<ComponentId> elements;
+    std::vector<NetId> nets{loop.gateNet};
+    std::unordered_set<NetId> onPath{loop.gateNet};
+    // A driver output wired straight to the gate is a path with no series element.
+    recordPathsAt(loop, loop.gateNet, elements, nets);
+    dfs(loop, loop.gateNet, elements, nets, onPath);
+  }
+
+  void dfs(GateLoop &loop, NetId at, std::vector<ComponentId> &elements, std::vector<NetId> &nets,
+           std::unordered_set<NetId> &onPath) {
+    if (elements.size() >= kMaxPathElements) return;
+    for (auto [e, end] = boost::out_edges(at, graph_); e != end; ++e) {
+      if (loop.paths.size() >= kMaxPathsPerSwitch) {
+        loop.pathLimitHit = true;
+        return;
+      }
+      NetId next = static_cast<NetId>(boost::target(*e, graph_));
+      ComponentId comp = graph_[*e].component;
+      if (onPath.count(next) || isTerminalNet(loop, next)) continue;
+      if (std::find(elements.begin(), elements.end(), comp) != elements.end()) continue;
+      elements.push_back(comp);
+      nets.push_back(next);
+      onPath.insert(next);
+      if (driverOutputs_.count(next)) {
+        recordPathsAt(loop, next, elements, nets);
+      } else {
+        dfs(loop, next, elements, nets, onPath);
+      }
+      onPath.erase(next);
+      nets.pop_back();
+      elements.pop_back();
+    }
+  }
+
+  void recordPathsAt(GateLoop &loop, NetId driverNet, const std::vector<ComponentId> &gateToDriver,
+                     const std::vector<NetId> &netsGateToDriver) {
+    auto it = driverOutputs_.find(driverNet);
+    if (it == driverOutputs_.end()) return;
+    for (const DriverOutput &out : it->second) {
+      GatePath path;
+      path.driver = out.driver;
+      path.driverPin = out.pin;
+      path.output = out.kind;
+      path.elements.assign(gateToDriver.rbegin(), gateToDriver.rend());
+      path.nets.assign(netsGateToDriver.rbegin(), netsGateToDriver.rend());
+      decideConduction(path);
+      loop.paths.push_back(std::move(path));
+    }
+  }
+
+  // On current flows driver -> gate, off current gate -> driver; each diode must be forward in
+  // that direction, i.e. its anode on the upstream net.
+  void decideConduction(GatePath &path) const {
+    bool forwardOn = true, forwardOff = true;
+    for (std::size_t i = 0; i < path.elements.size(); ++i) {
+      ComponentId id = path.elements[i];
+      if (roles_[id] != LoopRole::Diode) continue;
+      NetId driverSide = path.nets[i];
+      NetId anode = anodeNet(circuit_.component(id));
+      if (anode == driverSide) forwardOff = false;
+      else forwardOn = false;
+    }
+    bool drivesOn = path.output != OutputKind::Sink;
+    bool drivesOff = path.output != OutputKind::Source;
+    path.conductsOn = drivesOn && forwardOn;
+    path.conductsOff = drivesOff && forwardOff;
+    path.blockedByDiode = (drivesOn && !forwardOn) || (drivesOff && !forwardOff);
+  }
+
+  NetId anodeNet(const Component &c) const {
+    if (const Part *p = partOf(c, lib_)) {
+      auto it = p->pins.find("anode");
+      if (it != p->pins.end()) return circuit_.pinNet(c, it->second);
+    }
+    // SPICE D and XML diodes list the anode first.
+    NetId n = circuit_.pinNet(c, "a");
+    return n != kNone ? n : circuit_.pins(c)[0];
+  }
+
+  void collectShunts(GateLoop &loop) {
+    if (loop.refNet == kNone) return;
+    // The gate side: the gate net and every net between it and the driver outputs.
+    std::unordered_set<NetId> gateSide{loop.gateNet};
+    for (const auto &p : loop.paths)
+      for (std::size_t i = 1; i < p.nets.size(); ++i) gateSide.insert(p.nets[i]);
+    std::unordered_set<ComponentId> seen;
+    for (NetId g : gateSide) {
+      for (const PinRef &pr : pinsOnNet_[g]) {
+        if (!seen.insert(pr.component).second) continue;
+        const Component &c = circuit_.component(pr.component);
+        LoopRole role = roles_[pr.component];
+        if (role == LoopRole::Driver) {
+          addDriverClamp(loop, pr.component, c, g);
+          continue;
+        }
+        auto pins = circuit_.pins(c);
+        if (pins.size() != 2) continue;
+        NetId other = pins[pr.pin == 0 ? 1 : 0];
+        if (other == loop.refNet) {
+          addDirectShunt(loop, pr.component, c, role, g);
+        } else if ((role == LoopRole::Zener || role == LoopRole::Tvs) && !gateSide.count(other)) {
+          addSeriesClampPair(loop, pr.component, other);
+        }
+      }
+    }
+  }
+
+  void addDriverClamp(GateLoop &loop, ComponentId id, const Component &c, NetId gateSideNet) {
+    const Part &part = lib_.parts[c.part];
+    auto it = part.pins.find("clamp");
+    if (it == part.pins.end()) return;
+    if (circuit_.pinNet(c, it->second) == gateSideNet) loop.shunts.push_back({ShuntKind::DriverClamp, {id}, true});
+  }
+
+  void addDirectShunt(GateLoop &loop, ComponentId id, const Component &c, LoopRole role, NetId gateSideNet) {
+    switch (role) {
+    case LoopRole::Resistor: loop.shunts.push_back({ShuntKind::PullDown, {id}, true}); break;
+    case LoopRole::Capacitor: loop.shunts.push_back({ShuntKind::Capacitor, {id}, true}); break;
+    case LoopRole::Zener:
+    case LoopRole::Tvs: {
+      const Part *p = partOf(c, lib_);
+      bool bidirectional = p && p->bidirectional;
+      loop.shunts.push_back({bidirectional ? ShuntKind::ClampPair : ShuntKind::ZenerClamp, {id},
+                             anodeNet(c) != gateSideNet});
+      break;
+    }
+    case LoopRole::Diode:
+      loop.shunts.push_back({ShuntKind::DiodeClamp, {id}, anodeNet(c) != gateSideNet});
+      break;
+    default: break;
+    }
+  }
+
+  // Back-to-back Zeners: gate -> Z1 -> mid -> Z2 -> reference, with nothing else on mid.
+  void addSeriesClampPair(GateLoop &loop, ComponentId first, NetId mid) {
+    const auto &onMid = pinsOnNet_[mid];
+    if (onMid.size() != 2) return;
+    const PinRef &second = onMid[0].component == first ? onMid[1] : onMid[0];
+    LoopRole r2 = roles_[second.component];
+    if (r2 != LoopRole::Zener && r2 != LoopRole::Tvs) return;
+    auto pins = circuit_.pins(circuit_.component(second.component));
+    if (pins.size() != 2) return;
+    NetId far = pins[second.pin == 0 ? 1 : 0];
+    if (far != loop.refNet) return;
+    loop.shunts.push_back({ShuntKind::ClampPair, {first, second.component}, true});
+  }
+
+  void classifyDriverReference(GateLoop &loop) {
+    const Component &drv = circuit_.component(loop.driver);
+    const Part &part = lib_.parts[drv.part];
+    loop.driverRefNet = rolePinNet(circuit_, drv, part, "ref");
+    if (loop.driverRefNet == kNone) loop.driverReference = DriverReference::Unknown;
+    else if (loop.kelvinNet != kNone && loop.driverRefNet == loop.kelvinNet) loop.driverReference = DriverReference::Kelvin;
+    else if (loop.driverRefNet == loop.emitterNet) loop.driverReference = DriverReference::PowerTerminal;
+    else loop.driverReference = DriverReference::Other;
+  }
+
+  // A leg: one switch's emitter/source net is the other's collector/drain net.
+  static void pairHalfBridges(std::vector<GateLoop> &loops) {
+    std::unordered_map<NetId, std::size_t> byCollector;
+    for (std::size_t i = 0; i < loops.size(); ++i)
+      if (loops[i].collectorNet != kNone) byCollector.emplace(loops[i].collectorNet, i);
+    for (std::size_t i = 0; i < loops.size(); ++i) {
+      auto it = byCollector.find(loops[i].emitterNet);
+      if (loops[i].emitterNet == kNone || it == byCollector.end() || it->second == i) continue;
+      GateLoop &low = loops[it->second];
+      if (loops[i].halfBridgePartner != kNone || low.halfBridgePartner != kNone) continue;
+      loops[i].halfBridgePartner = low.switchId;
+      low.halfBridgePartner = loops[i].switchId;
+    }
+  }
+
+  const Circuit &circuit_;
+  const PartLibrary &lib_;
+  SeriesGraph graph_;
+  std::vector<std::vector<PinRef>> pinsOnNet_;
+  std::vector<LoopRole> roles_;
+  std::unordered_map<NetId, std::vector<DriverOutput>> driverOutputs_;
+};
+
+} // namespace
+
+LoopRole loopRole(const Component &c, const PartLibrary &lib) {
+  if (const Part *p = partOf(c, lib)) {
+    switch (p->kind) {
+    case PartKind::Igbt:
+    case PartKind::Mosfet: return LoopRole::Switch;
+    case PartKind::Driver: return LoopRole::Driver;
+    case PartKind::Resistor: return LoopRole::Resistor;
+    case PartKind::Capacitor: return LoopRole::Capacitor;
+    case PartKind::Diode: return LoopRole::Diode;
+    case PartKind::Zener: return LoopRole::Zener;
+    case PartKind::Tvs: return LoopRole::Tvs;
+    case PartKind::Ferrite: return LoopRole::Ferrite;
+    }
+  }
+  switch (c.kind) {
+  case ElementKind::Resistor: return LoopRole::Resistor;
+  case ElementKind::Inductor: return LoopRole::Inductor;
+  case ElementKind::Ferrite: return LoopRole::Ferrite;
+  case ElementKind::Diode: return LoopRole::Diode;
+  case ElementKind::Zener: return LoopRole::Zener;
+  case ElementKind::Tvs: return LoopRole::Tvs;
+  case ElementKind::Capacitor: return LoopRole::Capacitor;
+  default: return LoopRole::Other;
+  }
+}
+
+const char *shuntKindName(ShuntKind k) {
+  switch (k) {
+  case ShuntKind::PullDown: return "pull-down";
+  case ShuntKind::ZenerClamp: return "zener-clamp";
+  case ShuntKind::ClampPair: return "clamp-pair";
+  case ShuntKind::DiodeClamp: return "diode-clamp";
+  case ShuntKind::Capacitor: return "gate-capacitor";
+  case ShuntKind::DriverClamp: return "driver-clamp";
+  }
+  return "pull-down";
+}
+
+NetId rolePinNet(const Circuit &circuit, const Component &c, const Part &part, const std::string &role) {
+  static const std::unordered_map<std::string, std::vector<std::string>> kAliases = {
+      {"emitter", {"emitter", "source"}}, {"source", {"source", "emitter"}},
+      {"collector", {"collector", "drain"}}, {"drain", {"drain", "collector"}}};
+  std::vector<std::string> names{role};
+  if (auto a = kAliases.find(role); a != kAliases.end()) names = a->second;
+  for (const auto &name : names) {
+    auto it = part.pins.find(name);
+    if (it != part.pins.end()) return circuit.pinNet(c, it->second);
+  }
+  // Parts without a pin map on primitive SPICE transistors use the element's own pin order.
+  static const std::unordered_map<std::string, std::pair<const char *, const char *>> kPrimitive = {
+      {"gate", {"g", "b"}}, {"emitter", {"s", "e"}}, {"source", {"s", "e"}},
+      {"collector", {"d", "c"}}, {"drain", {"d", "c"}}};
+  auto prim = kPrimitive.find(role);
+  if (prim == kPrimitive.end()) return kNone;
+  if (c.kind == ElementKind::Mosfet) return circuit.pinNet(c, prim->second.first);
+  if (c.kind == ElementKind::Bjt) return circuit.pinNet(c, prim->second.second);
+  return kNone;
+}
+
+std::vector<GateLoop> extractGateLoops(const Circuit &circuit, const PartLibrary &lib) {
+  return Extractor(circuit, lib).run();
+}
+
+} // namespace gateloop

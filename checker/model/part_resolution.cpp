@@ -1,0 +1,204 @@
+/// \file
+/// Part resolution (spec 4.3): XML part attribute, then project `assign` globs, then library
+/// `match` rules.
+
+#include "checker/model/part_resolution.h"
+
+#include <algorithm>
+#include <unordered_map>
+
+namespace gateloop {
+
+namespace {
+
+char lower(char c) { return c >= 'A' && c <= 'Z' ? static_cast<char>(c - 'A' + 'a') : c; }
+
+/// Optimal string alignment distance, ignoring case (for "did you mean").
+std::size_t editDistance(std::string_view a, std::string_view b) {
+  const std::size_t n = a.size(), m = b.size();
+  std::vector<std::vector<std::size_t>> d(n + 1, std::vector<std::size_t>(m + 1));
+  for (std::size_t i = 0; i <= n; ++i) d[i][0] = i;
+  for (std::size_t j = 0; j <= m; ++j) d[0][j] = j;
+  for (std::size_t i = 1; i <= n; ++i)
+    for (std::size_t j = 1; j <= m; ++j) {
+      std::size_t cost = lower(a[i - 1]) == lower(b[j - 1]) ? 0 : 1;
+      d[i][j] = std::min({d[i - 1][j] + 1, d[i][j - 1] + 1, d[i - 1][j - 1] + cost});
+      if (i > 1 && j > 1 && lower(a[i - 1]) == lower(b[j - 2]) && lower(a[i - 2]) == lower(b[j - 1]))
+        d[i][j] = std::min(d[i][j], d[i - 2][j - 2] + 1);
+    }
+  return d[n][m];
+}
+
+std::string unknownPartMessage(const std::string &id, const PartLibrary &lib, const std::string &element = {}) {
+  std::string msg = "unknown part \"" + id + "\"";
+  if (!element.empty()) msg += " on " + element;
+  const std::string *best = nullptr;
+  std::size_t bestDistance = std::max<std::size_t>(1, id.size() / 3) + 1;
+  for (const auto &p : lib.parts) {
+    std::size_t d = editDistance(id, p.id);
+    if (d < bestDistance) {
+      best = &p.id;
+      bestDistance = d;
+    }
+  }
+  if (best) msg += "; did you mean \"" + *best + "\"?";
+  else if (lib.parts.empty()) msg += " (no parts library is loaded)";
+  return msg;
+}
+
+/// Same key spelling as the JSON readers use (`assign.R1`, `assign["R*"]`).
+std::string keyPath(const std::string &parent, const std::string &key) {
+  bool simple = !key.empty() && std::all_of(key.begin(), key.end(), [](char c) {
+    return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') || c == '_' || c == '-';
+  });
+  if (simple) return parent + "." + key;
+  std::string quoted = "\"";
+  for (char c : key) {
+    if (c == '"' || c == '\\') quoted += '\\';
+    quoted += c;
+  }
+  return parent + "[" + quoted + "\"]";
+}
+
+std::string_view leafName(std::string_view name) {
+  auto dot = name.rfind('.');
+  return dot == std::string_view::npos ? name : name.substr(dot + 1);
+}
+
+/// Whether a part of \p part may describe an element of \p element. Subcircuits and untyped
+/// elements can be anything; primitive elements only what they electrically are.
+bool compatible(ElementKind element, PartKind part) {
+  switch (element) {
+  case ElementKind::Resistor: return part == PartKind::Resistor;
+  case ElementKind::Capacitor: return part == PartKind::Capacitor;
+  case ElementKind::Inductor:
+  case ElementKind::Ferrite: return part == PartKind::Ferrite;
+  case ElementKind::Diode:
+  case ElementKind::Zener:
+  case ElementKind::Tvs: return part == PartKind::Diode || part == PartKind::Zener || part == PartKind::Tvs;
+  case ElementKind::Bjt: return part == PartKind::Igbt;
+  case ElementKind::Mosfet:
+  case ElementKind::Jfet:
+  case ElementKind::Mesfet: return isSwitch(part);
+  case ElementKind::Subcircuit:
+  case ElementKind::Generic:
+  case ElementKind::Switch: return true;
+  default: return false;
+  }
+}
+
+} // namespace
+
+bool globMatch(std::string_view pattern, std::string_view text) {
+  // Iterative matcher with one backtrack point: linear in practice, never exponential.
+  std::size_t p = 0, t = 0, starP = std::string_view::npos, starT = 0;
+  while (t < text.size()) {
+    if (p < pattern.size() && (pattern[p] == '?' || lower(pattern[p]) == lower(text[t]))) {
+      ++p, ++t;
+    } else if (p < pattern.size() && pattern[p] == '*') {
+      starP = p++;
+      starT = t;
+    } else if (starP != std::string_view::npos) {
+      p = starP + 1;
+      t = ++starT;
+    } else {
+      return false;
+    }
+  }
+  while (p < pattern.size() && pattern[p] == '*') ++p;
+  return p == pattern.size();
+}
+
+void resolveParts(Circuit &circuit, const PartLibrary &lib,
+                  const std::vector<std::pair<std::string, std::string>> &assign, SourceLocation assignWhere,
+                  const std::string &assignFieldPath, InputDiagnostics &diags) {
+  // assign entries resolved once; an unknown id is reported once, at its field.
+  std::vector<int> assignPart(assign.size(), -1);
+  for (std::size_t i = 0; i < assign.size(); ++i) {
+    assignPart[i] = lib.find(assign[i].second);
+    if (assignPart[i] < 0)
+      diags.fieldError(assignWhere, keyPath(assignFieldPath, assign[i].first),
+                       unknownPartMessage(assign[i].second, lib));
+  }
+
+  // match names, lower-cased; the first part in library order claims a name.
+  std::unordered_map<std::string, std::uint32_t> bySubckt, byModel;
+  for (std::size_t i = 0; i < lib.parts.size(); ++i) {
+    const Part &p = lib.parts[i];
+    auto claim = [&](std::unordered_map<std::string, std::uint32_t> &map, const std::string &name,
+                     const char *what) {
+      auto [it, inserted] = map.try_emplace(toLower(name), static_cast<std::uint32_t>(i));
+      if (!inserted && it->second != i)
+        diags.add({Severity::Warning, {p.file, 0, 0}, p.fieldPath + ".match",
+                   std::string(what) + " \"" + name + "\" is also matched by part \"" +
+                       lib.parts[it->second].id + "\", which is used"});
+    };
+    for (const auto &s : p.matchSubckt) claim(bySubckt, s, "subcircuit");
+    for (const auto &m : p.matchModel) claim(byModel, m, "model");
+  }
+
+  std::unordered_map<std::string, int> hintCache;
+  auto &components = circuit.components();
+  for (auto &c : components) {
+    c.part = kNone;
+    bool viaMatch = false;
+    if (c.partHint != 0) {
+      std::string id(circuit.str(c.partHint));
+      auto [it, inserted] = hintCache.try_emplace(id, -1);
+      if (inserted) it->second = lib.find(id);
+      if (it->second >= 0) c.part = static_cast<std::uint32_t>(it->second);
+      else diags.error(c.where, unknownPartMessage(id, lib, c.name));
+    }
+    // The input's own part attribute wins: assign and match never override it.
+    for (std::size_t i = 0; c.partHint == 0 && i < assign.size(); ++i) {
+      const std::string &pattern = assign[i].first;
+      bool hierarchical = pattern.find('.') != std::string::npos;
+      if (!globMatch(pattern, hierarchical ? std::string_view(c.name) : leafName(c.name))) continue;
+      if (assignPart[i] >= 0) c.part = static_cast<std::uint32_t>(assignPart[i]);
+      break; // first matching pattern decides, even when its part id was unknown
+    }
+    if (c.partHint == 0 && c.part == kNone && c.model != 0) {
+      std::string model = toLower(circuit.str(c.model));
+      auto &map = c.kind == ElementKind::Subcircuit ? bySubckt : byModel;
+      if (auto it = map.find(model); it != map.end()) {
+        c.part = it->second;
+        viaMatch = true;
+      }
+    }
+    if (c.part != kNone && !viaMatch && !compatible(c.kind, lib.parts[c.part].kind))
+      diags.warning(c.where, std::string("part \"") + lib.parts[c.part].id + "\" is a " +
+                                 partKindName(lib.parts[c.part].kind) + " but " + c.name + " is a " +
+                                 elementKindName(c.kind) + " element");
+  }
+
+  // Hide everything flattened out of a subcircuit instance that a part models as a whole. Parents
+  // may come before or after their children in the list, so the answer is memoised per element.
+  enum : std::uint8_t { kUnknown, kVisible, kHidden };
+  std::vector<std::uint8_t> state(components.size(), kUnknown);
+  std::vector<ComponentId> chain;
+  for (std::size_t i = 0; i < components.size(); ++i) {
+    chain.clear();
+    ComponentId p = components[i].parent;
+    std::uint8_t result = kVisible;
+    // Walk up until an answer is known; the bound guards against a malformed parent cycle.
+    while (p != kNone && p < components.size() && chain.size() <= components.size()) {
+      const Component &parent = components[p];
+      if (parent.kind == ElementKind::Subcircuit && parent.part != kNone) {
+        result = kHidden;
+        break;
+      }
+      if (state[p] != kUnknown) {
+        result = state[p];
+        break;
+      }
+      chain.push_back(p);
+      p = parent.parent;
+    }
+    // Every ancestor walked through (not itself a modelled subcircuit) sees the same ancestors above.
+    for (ComponentId a : chain) state[a] = result;
+    if (state[i] == kUnknown) state[i] = result;
+    if (result == kHidden) components[i].hidden = true;
+  }
+}
+
+} // namespace gateloop

@@ -1,0 +1,15 @@
+# Writes a C++ file holding every docs/rules/<id>.md as a string, keyed by rule id.
+file(GLOB docs ${DOCS_DIR}/*.md)
+list(SORT docs)
+set(body "// Generated from docs/rules/*.md by cmake/embed_rule_docs.cmake. Do not edit.\n")
+string(APPEND body "#include \"checker/report/rule_docs.h\"\n\nnamespace gateloop {\n\n")
+string(APPEND body "const std::vector<RuleDoc> &embeddedRuleDocs() {\n  static const std::vector<RuleDoc> docs = {\n")
+foreach(doc ${docs})
+  get_filename_component(id ${doc} NAME_WE)
+  file(READ ${doc} text)
+  # Raw string literal with a delimiter that cannot appear in the docs.
+  string(APPEND body "    {\"${id}\", R\"gldoc(${text})gldoc\"},\n")
+endforeach()
+string(APPEND body "  };\n  return docs;\n}\n\n} // namespace gateloop\n")
+file(WRITE ${OUT}.tmp "${body}")
+file(COPY_FILE ${OUT}.tmp ${OUT} ONLY_IF_DIFFERENT)

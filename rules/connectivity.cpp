@@ -1,0 +1,128 @@
+// connectivity: every gate driven, every driver output used, gate resistors present, parts known.
+// See docs/rules/connectivity.md.
+#include "rules/all_rules.h"
+#include "rules/rule_support.h"
+
+#include <fmt/format.h>
+
+#include <set>
+
+namespace gateloop {
+
+namespace {
+
+class ConnectivityRule final : public Rule {
+public:
+  const RuleInfo &info() const override {
+    static const RuleInfo kInfo{"connectivity",
+                                "every switch gate reaches a driver through a gate resistor, every driver output "
+                                "reaches a switch, and switches and drivers have part data",
+                                Severity::Error,
+                                {}};
+    return kInfo;
+  }
+
+  void check(const DesignContext &design, const RuleOptions &, FindingSink &sink) const override {
+    std::set<std::pair<ComponentId, std::string>> usedOutputs;
+    for (const GateLoop &loop : design.loops) {
+      for (const GatePath &p : loop.paths) usedOutputs.insert({p.driver, toLower(p.driverPin)});
+      checkLoop(design, loop, sink);
+    }
+    checkDriverOutputs(design, usedOutputs, sink);
+    checkUnassignedTransistors(design, sink);
+  }
+
+private:
+  void checkLoop(const DesignContext &design, const GateLoop &loop, FindingSink &sink) const {
+    if (loop.gateNet == kNone) {
+      Finding f = makeLoopFinding(info(), Severity::Error, design, loop, {loop.switchId},
+                                  fmt::format("switch {} has no gate pin: the part's pin map names a pin the element "
+                                              "does not have",
+                                              loop.id));
+      f.fix = "check the 'pins' of the switch part against the subcircuit ports or netlist pin names";
+      sink.report(std::move(f));
+      return;
+    }
+    if (loop.paths.empty()) {
+      Finding f = makeLoopFinding(info(), Severity::Error, design, loop, {loop.switchId},
+                                  fmt::format("gate of {} (net {}) reaches no driver output through series R, L, "
+                                              "ferrite or diode",
+                                              loop.id, design.circuit.netAt(loop.gateNet).name));
+      f.fix = "connect the gate through a gate resistor to a driver output, and make sure the driver has a "
+              "driver part with its output pins";
+      sink.report(std::move(f));
+      return;
+    }
+    for (const GatePath &p : loop.paths) {
+      bool hasResistor = false;
+      for (ComponentId id : p.elements)
+        hasResistor |= loopRole(design.component(id), design.parts) == LoopRole::Resistor;
+      if (hasResistor) continue;
+      Finding f = makeLoopFinding(info(), Severity::Error, design, loop, {p.driver},
+                                  fmt::format("driver {} pin {} reaches the gate of {} without a gate resistor",
+                                              design.component(p.driver).name, p.driverPin, loop.id));
+      f.fix = "insert a gate resistor in the path (start from the switch maker's recommended value)";
+      sink.report(std::move(f));
+    }
+  }
+
+  void checkDriverOutputs(const DesignContext &design, const std::set<std::pair<ComponentId, std::string>> &used,
+                          FindingSink &sink) const {
+    const Circuit &c = design.circuit;
+    std::vector<std::uint32_t> pinsOnNet(c.nets().size(), 0);
+    for (const Component &comp : c.components()) {
+      if (comp.hidden || (comp.kind == ElementKind::Subcircuit && comp.part == kNone)) continue;
+      for (NetId n : c.pins(comp)) ++pinsOnNet[n];
+    }
+    for (ComponentId id = 0; id < c.components().size(); ++id) {
+      const Component &comp = c.component(id);
+      if (comp.hidden || loopRole(comp, design.parts) != LoopRole::Driver) continue;
+      const Part &part = *design.partOf(id);
+      for (const char *role : {"out_source", "out_sink", "out"}) {
+        auto it = part.pins.find(role);
+        if (it == part.pins.end() || used.count({id, toLower(it->second)})) continue;
+        NetId net = c.pinNet(comp, it->second);
+        if (net == kNone || pinsOnNet[net] < 2) continue; // a spare, unconnected output
+        Finding f;
+        f.rule = info().id;
+        f.severity = Severity::Error;
+        f.design = design.name;
+        f.refs = {comp.name};
+        f.where = comp.where;
+        f.message = fmt::format("output {} of driver {} (net {}) reaches no switch gate", it->second, comp.name,
+                                c.netAt(net).name);
+        f.fix = "connect the output through its gate resistor to the switch gate, or check the switch's part "
+                "assignment";
+        sink.report(std::move(f));
+      }
+    }
+  }
+
+  void checkUnassignedTransistors(const DesignContext &design, FindingSink &sink) const {
+    std::vector<const Component *> bare;
+    for (const Component &comp : design.circuit.components()) {
+      if (comp.hidden || comp.part != kNone) continue;
+      if (comp.kind == ElementKind::Mosfet || comp.kind == ElementKind::Bjt) bare.push_back(&comp);
+    }
+    if (bare.empty()) return;
+    std::string names;
+    for (std::size_t i = 0; i < bare.size() && i < 5; ++i) names += (i ? ", " : "") + bare[i]->name;
+    if (bare.size() > 5) names += fmt::format(" and {} more", bare.size() - 5);
+    Finding f;
+    f.rule = info().id;
+    f.severity = Severity::Note;
+    f.design = design.name;
+    f.refs = {bare.front()->name};
+    f.where = bare.front()->where;
+    f.message = fmt::format("{} transistor{} without part data ({}); their gate loops are not checked", bare.size(),
+                            bare.size() == 1 ? "" : "s", names);
+    f.fix = "assign switch parts (project 'assign' or a part 'match' on the model name) to check them";
+    sink.report(std::move(f));
+  }
+};
+
+} // namespace
+
+std::unique_ptr<Rule> makeConnectivityRule() { return std::make_unique<ConnectivityRule>(); }
+
+} // namespace gateloop

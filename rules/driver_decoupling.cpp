@@ -1,0 +1,106 @@
+// driver-decoupling: enough bypass capacitance on the driver supply. See docs/rules/driver-decoupling.md.
+#include "checker/physics/gate_drive.h"
+#include "rules/all_rules.h"
+#include "rules/rule_support.h"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <map>
+
+namespace gateloop {
+
+namespace {
+
+class DriverDecouplingRule final : public Rule {
+public:
+  const RuleInfo &info() const override {
+    static const RuleInfo kInfo{
+        "driver-decoupling",
+        "driver supply bypass capacitance is at least k x gate charge / allowed ripple",
+        Severity::Warning,
+        {{"k", Dimension::Dimensionless, "5", "margin factor on the gate charge"},
+         {"ripple", Dimension::Voltage, "0.5 V", "allowed supply droop per gate charge"}}};
+    return kInfo;
+  }
+
+  void check(const DesignContext &design, const RuleOptions &options, FindingSink &sink) const override {
+    double k = options.number("k", 5.0);
+    double ripple = options.quantity("ripple", Dimension::Voltage, 0.5);
+    // One check per driver, sized for the largest gate charge it drives.
+    std::map<ComponentId, std::size_t> worstLoop;
+    for (std::size_t i = 0; i < design.loops.size(); ++i) {
+      const GateLoop &loop = design.loops[i];
+      if (loop.driver == kNone) continue;
+      auto it = worstLoop.find(loop.driver);
+      if (it == worstLoop.end() || charge(design.analyses[i]) > charge(design.analyses[it->second]))
+        worstLoop[loop.driver] = i;
+    }
+    if (worstLoop.empty()) return;
+    // Capacitors indexed by the (unordered) pair of nets they bridge, built once per design.
+    CapacitorsByNets caps;
+    const Circuit &c = design.circuit;
+    for (ComponentId id = 0; id < c.components().size(); ++id) {
+      const Component &comp = c.component(id);
+      if (comp.hidden || loopRole(comp, design.parts) != LoopRole::Capacitor) continue;
+      auto pins = c.pins(comp);
+      if (pins.size() == 2) caps[std::minmax(pins[0], pins[1])].push_back(id);
+    }
+    for (const auto &[driver, i] : worstLoop) checkDriver(design, caps, driver, i, k, ripple, sink);
+  }
+
+private:
+  using CapacitorsByNets = std::map<std::pair<NetId, NetId>, std::vector<ComponentId>>;
+
+  static double charge(const LoopAnalysis &a) {
+    if (!a.cGate || !a.vOn || !a.vOff) return 0.0;
+    return a.cGate->si() * (*a.vOn - *a.vOff).si();
+  }
+
+  void checkDriver(const DesignContext &design, const CapacitorsByNets &bypass, ComponentId driver, std::size_t loopIndex, double k, double ripple,
+                   FindingSink &sink) const {
+    const GateLoop &loop = design.loops[loopIndex];
+    const Circuit &c = design.circuit;
+    const Component &drv = c.component(driver);
+    const Part &part = *design.partOf(driver);
+    NetId supply = rolePinNet(c, drv, part, "supply");
+    NetId ref = rolePinNet(c, drv, part, "ref");
+    double q = charge(design.analyses[loopIndex]);
+    if (supply == kNone || ref == kNone || q <= 0.0) {
+      sink.report(missingDataNote(info(), design, loop,
+                                  "the driver part's 'supply' and 'ref' pins and the gate charge of the switch",
+                                  {driver}));
+      return;
+    }
+    std::vector<ComponentId> caps;
+    double total = 0.0;
+    auto found = bypass.find(std::minmax(supply, ref));
+    for (ComponentId id : found == bypass.end() ? std::vector<ComponentId>{} : found->second) {
+      const Component &comp = c.component(id);
+      const Part *p = design.partOf(id);
+      double value = p && p->capacitance ? p->capacitance->si() : comp.hasValue() ? comp.value : 0.0;
+      total += value;
+      caps.push_back(id);
+    }
+    Farad needed = minDecouplingCapacitance(Coulomb(q), Volt(ripple), k);
+    if (total >= needed.si()) return;
+    std::vector<ComponentId> refs{driver};
+    refs.insert(refs.end(), caps.begin(), caps.end());
+    Finding f = makeLoopFinding(info(), Severity::Warning, design, loop, refs,
+                                fmt::format("driver {} has {} of bypass capacitance between {} and {}, below {} "
+                                            "({} x {} gate charge / {} ripple)",
+                                            drv.name, eng(total, "F"), c.netAt(supply).name, c.netAt(ref).name,
+                                            eng(needed.si(), "F"), k, eng(q, "C"), eng(ripple, "V")));
+    f.values = {{"c_bypass", total, "F"}, {"c_needed", needed.si(), "F"}, {"q_gate", q, "C"}};
+    f.fix = fmt::format("add at least {} of low-ESR ceramic capacitance between the driver's {} and {} pins, next "
+                        "to the driver",
+                        eng(needed.si() - total, "F"), part.pins.at("supply"), part.pins.at("ref"));
+    sink.report(std::move(f));
+  }
+};
+
+} // namespace
+
+std::unique_ptr<Rule> makeDriverDecouplingRule() { return std::make_unique<DriverDecouplingRule>(); }
+
+} // namespace gateloop

@@ -35,13 +35,18 @@ std::size_t editDistance(std::string_view a, std::string_view b) {
   return d[n][m];
 }
 
+constexpr int kMaxDepth = 100;
+struct TooDeep {};
+
 /// Tracks the path of the value being parsed so duplicate keys can be reported by field path
 /// (nlohmann would otherwise keep one of the two values without a word).
 class DuplicateKeyFinder {
 public:
   DuplicateKeyFinder(FileId file, InputDiagnostics &diags) : file_(file), diags_(diags) {}
 
-  bool operator()(int /*depth*/, Json::parse_event_t event, Json &parsed) {
+  bool operator()(int depth, Json::parse_event_t event, Json &parsed) {
+    // Printing and converting values recurses; refuse nesting no real input file has.
+    if (depth > kMaxDepth) throw TooDeep{};
     switch (event) {
     case Json::parse_event_t::object_start:
     case Json::parse_event_t::array_start: {
@@ -146,6 +151,8 @@ std::optional<Json> parseJsonText(std::string_view text, FileId fileId, InputDia
     if (offset >= text.size()) offset = text.empty() ? 0 : text.size() - 1;
     LineIndex index(text);
     diags.error(index.locate(fileId, offset), "invalid JSON: " + parseErrorDetail(e.what()));
+  } catch (const TooDeep &) {
+    diags.error({fileId, 0, 0}, "invalid JSON: nested deeper than " + std::to_string(kMaxDepth) + " levels");
   } catch (const Json::exception &e) {
     diags.error({fileId, 0, 0}, std::string("invalid JSON: ") + e.what());
   }

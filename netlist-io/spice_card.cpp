@@ -87,7 +87,8 @@ TokenizeStatus tokenizeSegments(std::string_view buf, const Segment *segs, std::
       if (c == '{' || c == '\'' || c == '"') {
         char open = c, close = closerOf(c);
         int nest = 0;
-        std::size_t j = i;
+        // A brace group counts its own '{'; a quote starts looking after itself.
+        std::size_t j = open == '{' ? i : i + 1;
         bool closed = false;
         for (; j < segEnd; ++j) {
           if (buf[j] == close && (open != '{' || --nest == 0)) {
@@ -98,7 +99,9 @@ TokenizeStatus tokenizeSegments(std::string_view buf, const Segment *segs, std::
         }
         if (!closed) {
           if (!joined && s + 1 < segCount) return TokenizeStatus::NeedsJoin;
-          error.message = std::string("unterminated '") + open + "' (no closing '" + close + "')";
+          error.message = open == '{'    ? "unterminated '{' (no closing '}')"
+                          : open == '\'' ? "unterminated quoted expression (no closing ')"
+                                         : "unterminated string (no closing \")";
           // Report where the group opened: find its segment.
           std::size_t seg = s;
           while (seg > 0 && i < segs[seg].begin) --seg;

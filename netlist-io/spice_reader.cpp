@@ -369,6 +369,8 @@ public:
 
   // Used by ParamEnv.
   void reportOnce(SourceLocation where, std::string message);
+  /// Note on a value read as an IEC 60062 RKM code, once per place, when SPICE reads it otherwise.
+  void noteRkm(SourceLocation where, std::string_view text, double value, std::string_view subject);
   const SpiceFunction *function(std::string_view name) const {
     auto it = functions_.find(name);
     return it == functions_.end() ? nullptr : &it->second;
@@ -466,6 +468,7 @@ private:
   std::set<std::string, std::less<>> unknownDotCards_;
   std::set<char> unknownLetters_;
   std::set<std::tuple<FileId, std::uint32_t, std::uint32_t>> reported_;
+  std::set<std::tuple<FileId, std::uint32_t, std::uint32_t>> noted_;
   std::vector<Def *> counting_;
 
   ParamEnv globalEnv_;
@@ -532,6 +535,16 @@ void SpiceDeckReader::note(SourceLocation where, std::string message) {
     return;
   }
   diags_.note(where, std::move(message));
+}
+
+void SpiceDeckReader::noteRkm(SourceLocation where, std::string_view text, double value,
+                              std::string_view subject) {
+  if (!noted_.emplace(where.file, where.line, where.column).second) return;
+  auto spice3 = parseSpice3Value(text);
+  if (spice3 && *spice3 == value) return; // same number either way (`10k0`)
+  note(where, std::string(subject) + ": value '" + std::string(text) + "' read as " +
+                  formatNumber(value) + " (IEC 60062 RKM code); SPICE simulators " +
+                  (spice3 ? "read it as " + formatNumber(*spice3) : std::string("reject it")));
 }
 
 void SpiceDeckReader::reportOnce(SourceLocation where, std::string message) {
@@ -1132,14 +1145,7 @@ bool SpiceDeckReader::parseValueWord(const SourceFile &f, const SpiceWord &w, Re
   if (auto v = parseSpiceValue(text)) {
     rec.hasNumber = true;
     rec.value = v->value;
-    if (v->rkm) {
-      auto spice3 = parseSpice3Value(text);
-      if (!spice3 || *spice3 != v->value)
-        note(rec.valueWhere,
-             std::string(rec.name) + ": value '" + std::string(text) + "' read as " +
-                 formatNumber(v->value) + " (IEC 60062 RKM code); SPICE simulators " +
-                 (spice3 ? "read it as " + formatNumber(*spice3) : std::string("reject it")));
-    }
+    if (v->rkm) noteRkm(rec.valueWhere, text, v->value, rec.name);
     return true;
   }
   if (isIdentifier(text)) {
@@ -1626,6 +1632,7 @@ bool SpiceDeckReader::evaluate(std::string_view text, SourceLocation where, cons
   bool delimited = spiceExpressionBody(text, body);
   if (!delimited) {
     if (auto v = parseSpiceValue(text)) {
+      if (v->rkm) noteRkm(where, text, v->value, what);
       out = v->value;
       return true;
     }

@@ -48,10 +48,10 @@ public:
         dampingMax = std::isnan(dampingMax) ? m : std::min(dampingMax, m);
       }
       double limit = fixedMax;
-      std::string basis = "configured maximum";
+      std::string basis = "the configured maximum";
       if (!std::isnan(dampingMax) && (std::isnan(limit) || dampingMax < limit)) {
         limit = dampingMax;
-        basis = fmt::format("length at which damping falls to {}", zetaWarn);
+        basis = fmt::format("the length at which damping falls to {}", zetaWarn);
       }
       if (std::isnan(limit)) {
         sink.report(missingDataNote(info(), design, loop,
@@ -60,8 +60,8 @@ public:
       }
       if (length <= limit) continue;
       Finding f = makeLoopFinding(info(), Severity::Warning, design, loop, {loop.switchId},
-                                  fmt::format("gate loop of {} is {} long, over the {} of {}", loop.id,
-                                              eng(length, "m"), basis, eng(limit, "m")));
+                                  fmt::format("gate loop of {} is {} long, over its {} limit ({})", loop.id,
+                                              eng(length, "m"), eng(limit, "m"), basis));
       f.values = {{"length", length, "m"}, {"max", limit, "m"}};
       if (!std::isnan(dampingMax)) f.values.push_back({"max_for_damping", dampingMax, "m"});
       f.fix = fmt::format("shorten the gate loop below {} (route the return under the gate trace, or move the "

@@ -29,7 +29,8 @@ public:
       const Part &sw = switchPart(design, loop);
       for (bool on : {true, false}) {
         const EdgeAnalysis &e = on ? a.on : a.off;
-        if (!e.hasPath) continue;
+        // A path without a gate resistor is a connectivity error; a 0 ohm range finding would repeat it.
+        if (!e.hasPath || e.resistors.empty()) continue;
         const auto &range = on ? sw.rgRecommendedOn : sw.rgRecommendedOff;
         if (!range) {
           sink.report(missingDataNote(info(), design, loop,

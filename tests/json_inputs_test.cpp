@@ -449,6 +449,12 @@ TEST_F(JsonInputs, MissingFile) {
   EXPECT_EQ(errs[0], at("error: cannot open file (No such file or directory)"));
 }
 
+TEST_F(JsonInputs, DeepNestingIsRefusedNotACrash) {
+  auto errs = partsErrors("{\"schema\": " + std::string(200000, '[') + std::string(200000, ']') + "}");
+  ASSERT_EQ(errs.size(), 1u);
+  EXPECT_EQ(errs[0], at("error: invalid JSON: nested deeper than 100 levels"));
+}
+
 TEST_F(JsonInputs, TopLevelMustBeAnObject) {
   auto errs = projectErrors("[1, 2]");
   ASSERT_EQ(errs.size(), 1u);

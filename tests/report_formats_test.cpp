@@ -446,8 +446,8 @@ TEST(HtmlReport, WellFormedWithOnePlotPerPlottableLoop) {
   collect(doc, "svg", svgs);
   // X1.Q1 has the data; X1.Q2 lacks the loop inductance and says so instead.
   ASSERT_EQ(svgs.size(), 1u);
-  EXPECT_NE(html.find("No plot: not enough data (turn-on: no L_loop (no layout data); turn-off: no L_loop"),
-            std::string::npos);
+  EXPECT_NE(html.find("No plot: not enough data (turn-on: no L_loop; turn-off: no L_loop)."), std::string::npos);
+  EXPECT_NE(html.find("Missing: layout: no nets of this loop are in the sidecar"), std::string::npos);
 
   const pugi::xml_node svg = svgs[0];
   double vx, vy, vw, vh;

@@ -246,7 +246,8 @@ private:
       note(assumptions_, "resistor part " + p->id + " lacks t_knee/t_max; 70/155 degC assumed (typical thick film)");
     l.deratedPower = deratedPower(*p->pRated, tKnee, tMax, tAmb);
     if (p->pulse.empty() || l.pulseWidth.si() <= 0.0) return;
-    auto single = singlePulseLimit(p->pulse, l.pulseWidth, *l.deratedPower);
+    // Beyond the curve the continuous rating applies; repetitivePulseLimit derates it for ambient.
+    auto single = singlePulseLimit(p->pulse, l.pulseWidth, *p->pRated);
     if (!single) return;
     l.pulseOutsideCurve = single->belowCurve || single->aboveCurve;
     double kT = p->pRated->si() > 0 ? l.deratedPower->si() / p->pRated->si() : 0.0;

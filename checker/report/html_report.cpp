@@ -182,6 +182,18 @@ void writePlots(const DesignReport &d, std::size_t designIndex, std::ostream &ou
       for (std::size_t k = 0; k < plot.missing.size(); ++k) out << (k ? "; " : "") << h(plot.missing[k]);
       out << ").</p>\n";
     }
+    // What the curve rests on: without layout data the loop inductance is only the parts' own,
+    // and the ringing shown is a lower bound.
+    const LoopAnalysis &a = d.analyses[i];
+    if (!plot.svg.empty() && a.inductanceMethod == "none")
+      out << "<p class=\"nodata\">No layout data for this loop: L_loop holds only the parts' internal "
+             "inductance, so real ringing will be larger than shown.</p>\n";
+    for (const auto &[label, list] : {std::pair{"Assumed", &a.assumptions}, std::pair{"Missing", &a.missing}}) {
+      if (list->empty()) continue;
+      out << "<p class=\"where\">" << label << ": ";
+      for (std::size_t k = 0; k < list->size(); ++k) out << (k ? "; " : "") << h((*list)[k]);
+      out << "</p>\n";
+    }
     out << "</figure>\n";
   }
 }

@@ -160,7 +160,8 @@ std::string resultText(const Finding &f) {
   return text;
 }
 
-ordered_json logicalLocation(const std::string &design, const std::string &loop) {
+ordered_json logicalLocation(const std::string &designName, const std::string &loop) {
+  const std::string design = designName.empty() ? "design" : designName;
   ordered_json l;
   if (loop.empty()) {
     l["name"] = design;
@@ -210,7 +211,7 @@ ordered_json resultJson(const Finding &f, const std::string &design, const RuleT
   }
   location["logicalLocations"] = ordered_json::array({logicalLocation(design, f.loop)});
   r["locations"] = ordered_json::array({location});
-  r["partialFingerprints"] = {{kFingerprintKey, f.fingerprint}};
+  r["partialFingerprints"] = {{kFingerprintKey, f.fingerprint.empty() ? findingFingerprint(f) : f.fingerprint}};
   r["baselineState"] = f.baseline ? "unchanged" : "new";
   if (f.waived) {
     ordered_json s = {{"kind", "external"}, {"status", "accepted"}};

@@ -105,7 +105,7 @@ EdgeCurve edgeCurve(const LoopAnalysis &a, const EdgeAnalysis &e, bool turnOn) {
     return curve;
   }
   if (!e.rTotal) absent.push_back("R_total");
-  if (!e.lLoop) absent.push_back("L_loop (no layout data)");
+  if (!e.lLoop) absent.push_back("L_loop");
   if (!a.cGate) absent.push_back("C_gate");
   if (!a.vOn) absent.push_back("V_on");
   if (!a.vOff) absent.push_back("V_off");
@@ -122,8 +122,9 @@ EdgeCurve edgeCurve(const LoopAnalysis &a, const EdgeAnalysis &e, bool turnOn) {
     curve.missing = std::string(edgeName) + ": V_on equals V_off, no step to plot";
     return curve;
   }
-  // Time axis: ringing periods when the analysis found ringing (bounded by the decay envelope
-  // 2L/R so a lightly under-damped loop does not show mostly flat line), else R*C.
+  // Time axis: ringing periods when the analysis found ringing, else R*C. The periods are
+  // bounded by the decay time constant 2L/R: just below critical damping the period is long
+  // against the decay and the plot would be mostly flat line.
   double span = kSpanCount * r * c;
   if (e.fRing && e.fRing->si() > 0) {
     span = kSpanCount / e.fRing->si();

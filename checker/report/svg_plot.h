@@ -23,7 +23,7 @@ struct GateVoltagePlot {
   /// turn-off panel (V_on -> V_off) on a shared voltage axis, or empty when neither edge has the
   /// data for a curve.
   std::string svg;
-  /// Why an edge has no curve ("turn-off: no L_loop (no layout data)"), one entry per edge
+  /// Why an edge has no curve ("turn-off: no L_loop, C_gate"), one entry per edge
   /// without a curve; empty when both edges are plotted.
   std::vector<std::string> missing;
 };

@@ -7,6 +7,7 @@
 
 #include <algorithm>
 #include <map>
+#include <set>
 
 namespace gateloop {
 
@@ -46,7 +47,8 @@ public:
       auto pins = c.pins(comp);
       if (pins.size() == 2) caps[std::minmax(pins[0], pins[1])].push_back(id);
     }
-    for (const auto &[driver, i] : worstLoop) checkDriver(design, caps, driver, i, k, ripple, sink);
+    std::set<std::string> partsWithoutPins;
+    for (const auto &[driver, i] : worstLoop) checkDriver(design, caps, driver, i, k, ripple, partsWithoutPins, sink);
   }
 
 private:
@@ -57,7 +59,8 @@ private:
     return a.cGate->si() * (*a.vOn - *a.vOff).si();
   }
 
-  void checkDriver(const DesignContext &design, const CapacitorsByNets &bypass, ComponentId driver, std::size_t loopIndex, double k, double ripple,
+  void checkDriver(const DesignContext &design, const CapacitorsByNets &bypass, ComponentId driver,
+                   std::size_t loopIndex, double k, double ripple, std::set<std::string> &partsWithoutPins,
                    FindingSink &sink) const {
     const GateLoop &loop = design.loops[loopIndex];
     const Circuit &c = design.circuit;
@@ -66,9 +69,17 @@ private:
     NetId supply = rolePinNet(c, drv, part, "supply");
     NetId ref = rolePinNet(c, drv, part, "ref");
     double q = charge(design.analyses[loopIndex]);
-    if (supply == kNone || ref == kNone || q <= 0.0) {
-      sink.report(missingDataNote(info(), design, loop,
-                                  "the driver part's 'supply' and 'ref' pins and the gate charge of the switch",
+    if (supply == kNone || ref == kNone) {
+      // Missing pins are a property of the part: say it once per part, not once per driver.
+      if (partsWithoutPins.insert(part.id).second)
+        sink.report(designNote(info(), design,
+                               "not checked: driver part " + part.id + " names no 'supply' and 'ref' pins (or they are "
+                               "not connected), so its bypass capacitors cannot be found",
+                               "add the supply and reference pins to the driver part's 'pins'"));
+      return;
+    }
+    if (q <= 0.0) {
+      sink.report(missingDataNote(info(), design, loop, "the gate charge of the switch and the drive voltages",
                                   {driver}));
       return;
     }

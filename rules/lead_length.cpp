@@ -26,6 +26,12 @@ public:
   void check(const DesignContext &design, const RuleOptions &options, FindingSink &sink) const override {
     double fixedMax = options.quantity("max", Dimension::Length, NAN);
     double zetaWarn = options.number("zeta_warn", 0.7);
+    if (!design.layout) {
+      if (!design.loops.empty())
+        sink.report(designNote(info(), design, "not checked: no layout sidecar gives the gate-loop lengths",
+                               "give the design a layout sidecar with the lengths of its gate-loop nets"));
+      return;
+    }
     for (std::size_t i = 0; i < design.loops.size(); ++i) {
       const GateLoop &loop = design.loops[i];
       const LoopAnalysis &a = design.analyses[i];

@@ -24,6 +24,11 @@ public:
   void check(const DesignContext &design, const RuleOptions &options, FindingSink &sink) const override {
     double zetaWarn = options.number("zeta_warn", 0.7);
     double zetaError = options.number("zeta_error", 0.4);
+    if (!design.layout && !design.loops.empty())
+      sink.report(designNote(info(), design,
+                             "no layout sidecar: every loop's damping is computed with part-internal inductance only, "
+                             "so it is optimistic",
+                             "give the design a layout sidecar with the lengths of its gate-loop nets"));
     for (std::size_t i = 0; i < design.loops.size(); ++i) {
       const GateLoop &loop = design.loops[i];
       const LoopAnalysis &a = design.analyses[i];
@@ -38,7 +43,7 @@ public:
                                       e.resistors));
           continue;
         }
-        if (a.inductanceMethod == "none" && on)
+        if (design.layout && a.inductanceMethod == "none" && on)
           sink.report(missingDataNote(info(), design, loop,
                                       "loop inductance from the layout (damping computed with part-internal "
                                       "inductance only, so it is optimistic)"));

@@ -11,6 +11,17 @@ Finding missingDataNote(const RuleInfo &info, const DesignContext &design, const
   return f;
 }
 
+Finding designNote(const RuleInfo &info, const DesignContext &design, std::string message, std::string fix) {
+  Finding f;
+  f.rule = info.id;
+  f.severity = Severity::Note;
+  f.design = design.name;
+  f.message = std::move(message);
+  f.fix = std::move(fix);
+  f.where = {design.netlistFile, 0, 0};
+  return f;
+}
+
 std::string preferredAtOrAbove(double ohms, ESeries series) {
   return eng(nextPreferredAtOrAbove(ohms, series), "ohm") + " (" + std::string(eseriesName(series)) + ")";
 }

@@ -15,6 +15,10 @@ namespace gateloop {
 Finding missingDataNote(const RuleInfo &info, const DesignContext &design, const GateLoop &loop, std::string what,
                         std::vector<ComponentId> refs = {});
 
+/// A note about the whole design (no loop), located at the netlist, for data missing everywhere:
+/// one note instead of one per loop.
+Finding designNote(const RuleInfo &info, const DesignContext &design, std::string message, std::string fix);
+
 /// "on" or "off".
 inline const char *edgeName(bool on) { return on ? "on" : "off"; }
 

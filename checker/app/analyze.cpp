@@ -69,6 +69,7 @@ void applyWaivers(std::vector<DesignReport> &designs, const Project &project, co
     }
     note.fingerprint = findingFingerprint(note);
     designs.front().findings.push_back(std::move(note));
+    sortFindings(designs.front().findings);
   }
 }
 

@@ -47,7 +47,6 @@ int analyseRun(const CommonOptions &o, AnalysedRun &run) {
   for (const auto &d : in.designs) report.designs.push_back(analyzeDesign(*d, in.project, overrides, today));
   applyWaivers(report.designs, in.project, today);
   if (!baseline.empty()) applyBaseline(report.designs, baseline);
-  for (auto &d : report.designs) sortFindings(d.findings);
   for (const auto &diag : in.diags.items())
     if (diag.severity != Severity::Error) report.inputNotes.push_back(diag);
   report.summary = summarize(report.designs);

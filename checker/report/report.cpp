@@ -38,7 +38,16 @@ void sortFindings(std::vector<Finding> &findings) {
   auto key = [](const Finding &f) {
     return std::tie(f.loop, f.where.file, f.where.line, f.where.column, f.rule, f.message);
   };
-  std::stable_sort(findings.begin(), findings.end(), [&](const Finding &a, const Finding &b) { return key(a) < key(b); });
+  // Sort indices, then move each finding once: findings are large, and a design can have
+  // tens of thousands of them.
+  std::vector<std::size_t> order(findings.size());
+  for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
+  std::stable_sort(order.begin(), order.end(),
+                   [&](std::size_t a, std::size_t b) { return key(findings[a]) < key(findings[b]); });
+  std::vector<Finding> sorted;
+  sorted.reserve(findings.size());
+  for (std::size_t i : order) sorted.push_back(std::move(findings[i]));
+  findings = std::move(sorted);
 }
 
 std::string driverName(const DesignReport &d, const GateLoop &loop) {

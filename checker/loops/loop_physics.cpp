@@ -178,7 +178,7 @@ private:
 
     auto dv = swing();
     if (!a_.cGate || !dv || e.rTotal->si() <= 0.0) return;
-    RlcStep step = seriesRlcStep(*e.rTotal, *e.lLoop, *a_.cGate, *dv);
+    RlcStep step = seriesRlcStep(*e.rTotal, *e.lLoop, *a_.cGate, *dv, /*withSettling=*/false);
     if (!step.valid) return;
     e.zeta = step.zeta;
     e.fRing = step.fRing;

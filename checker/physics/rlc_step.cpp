@@ -146,7 +146,7 @@ Second settlingEstimate5pct(double zeta, Hertz fNatural) {
   return Second(3.0 / (zeta * 2.0 * kPi * fNatural.si()));
 }
 
-RlcStep seriesRlcStep(Ohm r, Henry l, Farad c, Volt step) {
+RlcStep seriesRlcStep(Ohm r, Henry l, Farad c, Volt step, bool withSettling) {
   if (!loopValuesValid(r, l, c) || !std::isfinite(step.si()))
     return invalidStep();
   RlcStep s;
@@ -182,7 +182,7 @@ RlcStep seriesRlcStep(Ohm r, Henry l, Farad c, Volt step) {
   s.iPeak = zeta <= 1.0 ? Ampere(dV * std::sqrt(C / L) * attenuation)
                         : Ampere(dV / R * 2.0 * zeta * attenuation);
   s.tPeak = Second(g * sqrtLC);
-  s.settling2pct = Second(normalizedSettlingTime(zeta, 0.02) * sqrtLC);
+  s.settling2pct = withSettling ? Second(normalizedSettlingTime(zeta, 0.02) * sqrtLC) : Second(kNaN);
   return s;
 }
 

@@ -41,7 +41,10 @@ struct RlcStep {
 ///
 /// Requirements: r >= 0, l >= 0, c > 0, not both r and l zero, all finite; otherwise the result
 /// has `valid == false`. r = 0 gives an undamped loop (overshoot 1, infinite settling time).
-RlcStep seriesRlcStep(Ohm r, Henry l, Farad c, Volt step);
+///
+/// The exact settling time needs a root search; \p withSettling = false skips it (settling2pct
+/// is then NaN) for callers that check thousands of loops and never show it.
+RlcStep seriesRlcStep(Ohm r, Henry l, Farad c, Volt step, bool withSettling = true);
 
 /// Normalised capacitor voltage v(t)/dV (0 before the step, tending to 1) of a series RLC step at
 /// normalised time \p w0t = w0 * t, for a finite damping ratio \p zeta >= 0 (Ogata 2010 sec. 5-3

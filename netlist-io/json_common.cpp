@@ -8,6 +8,7 @@
 #include <algorithm>
 #include <cerrno>
 #include <cstring>
+#include <filesystem>
 #include <fstream>
 #include <set>
 #include <sstream>
@@ -112,6 +113,11 @@ std::string parseErrorDetail(const std::string &what) {
 } // namespace
 
 bool readTextFile(const std::string &path, std::string &out, std::string &why) {
+  std::error_code ec;
+  if (std::filesystem::is_directory(path, ec)) {
+    why = "it is a folder";
+    return false;
+  }
   std::ifstream in(path, std::ios::binary);
   if (!in) {
     why = std::strerror(errno);

@@ -26,7 +26,8 @@ bool readLayout(const std::string &path, FileTable &files, Layout &out, InputDia
 bool readProject(const std::string &path, FileTable &files, Project &out, InputDiagnostics &diags);
 
 /// Reads a stand-alone operating-point file (`--operating F`): a JSON object with the keys of a
-/// design's `operating` object, optionally with `"schema": "gateloop-operating/1"`.
+/// design's `operating` object, optionally with `"schema": "gateloop-operating/1"`. The file's
+/// values are laid over those already in \p out; fields it leaves out keep their values.
 bool readOperatingPoint(const std::string &path, FileTable &files, OperatingPoint &out,
                         InputDiagnostics &diags);
 

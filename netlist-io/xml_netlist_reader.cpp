@@ -9,6 +9,7 @@
 
 #include <cerrno>
 #include <cstring>
+#include <filesystem>
 #include <fstream>
 #include <sstream>
 #include <unordered_map>
@@ -195,9 +196,13 @@ bool readXmlNetlistText(std::string_view text, const std::string &displayName, F
 }
 
 bool readXmlNetlist(const std::string &path, FileTable &files, Circuit &out, InputDiagnostics &diags) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) {
-    const char *why = std::strerror(errno);
+  std::error_code ec;
+  const bool folder = std::filesystem::is_directory(path, ec);
+  std::ifstream in;
+  if (!folder) in.open(path, std::ios::binary);
+  const int openErrno = errno;
+  if (folder || !in) {
+    const char *why = folder ? "it is a folder" : std::strerror(openErrno);
     diags.error({files.add(path), 0, 0}, std::string("cannot open file (") + why + ")");
     return false;
   }

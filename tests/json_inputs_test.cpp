@@ -447,6 +447,13 @@ TEST_F(JsonInputs, MissingFile) {
   auto errs = rendered();
   ASSERT_EQ(errs.size(), 1u);
   EXPECT_EQ(errs[0], at("error: cannot open file (No such file or directory)"));
+
+  diags_ = {};
+  path_ = dir_.string();
+  EXPECT_FALSE(readProject(path_, files_, project_, diags_));
+  errs = rendered();
+  ASSERT_EQ(errs.size(), 1u);
+  EXPECT_EQ(errs[0], at("error: cannot open file (it is a folder)"));
 }
 
 TEST_F(JsonInputs, DeepNestingIsRefusedNotACrash) {

@@ -33,8 +33,9 @@ struct Part {
   std::string fieldPath;                 ///< "parts.<id>", for messages
   std::vector<std::string> matchSubckt;  ///< subcircuit names (case-insensitive)
   std::vector<std::string> matchModel;   ///< .model names (case-insensitive)
-  /// Pin roles to pin names: switch roles gate, emitter|source, kelvin, collector|drain;
-  /// driver roles out_source, out_sink, out, ref, supply, clamp.
+  /// Pin roles to pin names: switch roles gate, emitter|source, kelvin, collector|drain (stored
+  /// in the kind's own words: emitter/collector for an IGBT, source/drain for a MOSFET); driver
+  /// roles out_source, out_sink, out, ref, supply, clamp; diode, Zener and TVS roles anode, cathode.
   std::map<std::string, std::string> pins;
 
   // Switches (igbt, mosfet). v_gs_* and v_ge_* are the same fields.

@@ -3,7 +3,7 @@
 /// part resolution, gate-loop extraction, physics, rules), with the per-loop cost and the ratio
 /// to `wc -l` on the same file. Results go into docs/performance.md ("Full check").
 ///
-///   bench_check [DECK] [--repeat N]
+///   bench_check [DECK] [--repeat N] [--faulty]
 /// Without DECK, gen_deck (beside this program) writes a flat deck of about one million lines.
 #include "checker/app/analyze.h"
 #include "checker/app/run_inputs.h"
@@ -42,15 +42,17 @@ double timeWc(const std::string &path) {
 
 // Parts for gen_deck's legs: the M elements (model NSW) are switches, each driver source is
 // assigned a driver part whose single output is pin "1" (the positive node of a V element).
+// The data make the legs pass every rule, as in a design that is gated in CI; `--faulty`
+// narrows the gate rating so every loop also produces findings.
 const char *const kParts = R"({ "schema": "gateloop-parts/1", "parts": {
-  "SW-BENCH": { "kind": "mosfet", "match": {"model": ["NSW"]}, "v_gs_max": "20 V", "v_gs_min": "-10 V",
+  "SW-BENCH": { "kind": "mosfet", "match": {"model": ["NSW"]}, "v_gs_max": "20 V", "v_gs_min": "@VGSMIN@",
     "v_th_min": "3 V", "v_plateau": "5 V", "c_ies": "2 nF", "c_res": "20 pF", "q_g": "60 nC",
     "q_g_swing": ["-5 V", "15 V"], "r_g_int": "1 ohm", "l_gate_internal": "3 nH",
     "r_g_recommended": {"on": ["1 ohm", "22 ohm"], "off": ["1 ohm", "22 ohm"]}, "v_rated": "650 V" },
   "DRV-BENCH": { "kind": "driver", "pins": {"out": "1", "ref": "2"}, "r_source": "1 ohm", "r_sink": "0.5 ohm",
-    "i_source_peak": "4 A", "i_sink_peak": "4 A", "v_on": "15 V", "v_off": "-5 V" },
-  "RES-BENCH": { "kind": "resistor", "p_rated": "0.25 W", "tolerance": 0.01,
-    "pulse": [["1 us", "40 W"], ["10 us", "12 W"], ["1 ms", "1 W"]] },
+    "i_source_peak": "8 A", "i_sink_peak": "8 A", "v_on": "15 V", "v_off": "-5 V" },
+  "RES-BENCH": { "kind": "resistor", "p_rated": "0.5 W", "tolerance": 0.01,
+    "pulse": [["0.01 us", "400 W"], ["1 us", "80 W"], ["10 us", "25 W"], ["1 ms", "2 W"]] },
   "DZ-BENCH": { "kind": "zener", "match": {"model": ["DZ18"]}, "v_breakdown": "18 V" } } })";
 
 } // namespace
@@ -58,9 +60,11 @@ const char *const kParts = R"({ "schema": "gateloop-parts/1", "parts": {
 int main(int argc, char **argv) {
   std::string deck;
   int repeat = 3;
+  bool faulty = false;
   for (int i = 1; i < argc; ++i) {
     std::string a = argv[i];
     if (a == "--repeat" && i + 1 < argc) repeat = std::max(1, std::atoi(argv[++i]));
+    else if (a == "--faulty") faulty = true;
     else deck = a;
   }
   if (deck.empty()) {
@@ -73,7 +77,9 @@ int main(int argc, char **argv) {
   }
   fs::path dir = fs::temp_directory_path() / "gateloop-bench-check";
   fs::create_directories(dir);
-  std::ofstream(dir / "parts.json") << kParts;
+  std::string parts = kParts;
+  parts.replace(parts.find("@VGSMIN@"), 8, faulty ? "-10 V" : "-20 V");
+  std::ofstream(dir / "parts.json") << parts;
   std::ofstream(dir / "gateloop.json") << R"({ "schema": "gateloop/1", "parts": ["parts.json"], "designs": [
     { "name": "bench", "netlist": ")" << fs::absolute(deck).string() << R"(",
       "assign": {"Vdrv*": "DRV-BENCH", "Rg*": "RES-BENCH"},

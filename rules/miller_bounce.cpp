@@ -7,6 +7,7 @@
 #include <fmt/format.h>
 
 #include <cmath>
+#include <unordered_map>
 
 namespace gateloop {
 
@@ -26,28 +27,26 @@ public:
 
   void check(const DesignContext &design, const RuleOptions &options, FindingSink &sink) const override {
     double margin = options.number("margin", 0.2);
+    std::unordered_map<ComponentId, std::size_t> loopOfSwitch;
+    for (std::size_t i = 0; i < design.loops.size(); ++i) loopOfSwitch.emplace(design.loops[i].switchId, i);
     for (std::size_t i = 0; i < design.loops.size(); ++i) {
       const GateLoop &loop = design.loops[i];
       if (loop.halfBridgePartner == kNone || loop.paths.empty()) continue;
-      checkLoop(design, i, margin, sink);
+      auto partner = loopOfSwitch.find(loop.halfBridgePartner);
+      checkLoop(design, i, partner == loopOfSwitch.end() ? std::nullopt : std::optional<std::size_t>(partner->second),
+                margin, sink);
     }
   }
 
 private:
-  std::optional<std::size_t> partnerIndex(const DesignContext &design, const GateLoop &loop) const {
-    for (std::size_t j = 0; j < design.loops.size(); ++j)
-      if (design.loops[j].switchId == loop.halfBridgePartner) return j;
-    return std::nullopt;
-  }
-
   // The slope the partner makes at turn-on: given by the operating point, else from the partner's
   // own gate drive on its Miller plateau.
-  std::optional<VoltPerSecond> partnerSlope(const DesignContext &design, const GateLoop &loop, std::string &basis) const {
+  std::optional<VoltPerSecond> partnerSlope(const DesignContext &design, std::optional<std::size_t> j,
+                                            std::string &basis) const {
     if (design.operating.dvDt) {
       basis = "operating.dv_dt";
       return design.operating.dvDt;
     }
-    auto j = partnerIndex(design, loop);
     if (!j) return std::nullopt;
     const Part *p = design.partOf(design.loops[*j].switchId);
     const LoopAnalysis &pa = design.analyses[*j];
@@ -58,7 +57,8 @@ private:
     return s;
   }
 
-  void checkLoop(const DesignContext &design, std::size_t i, double margin, FindingSink &sink) const {
+  void checkLoop(const DesignContext &design, std::size_t i, std::optional<std::size_t> partner, double margin,
+                 FindingSink &sink) const {
     const GateLoop &loop = design.loops[i];
     const LoopAnalysis &a = design.analyses[i];
     const Part &sw = switchPart(design, loop);
@@ -69,7 +69,7 @@ private:
       return;
     }
     std::string basis;
-    auto slope = partnerSlope(design, loop, basis);
+    auto slope = partnerSlope(design, partner, basis);
     if (!slope) {
       sink.report(missingDataNote(info(), design, loop,
                                   "the partner's dv/dt: set operating.dv_dt or give the partner's v_plateau and c_res"));

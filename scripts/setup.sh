@@ -4,6 +4,8 @@ set -euo pipefail
 
 packages=(build-essential cmake pkg-config libpugixml-dev libboost-graph-dev nlohmann-json3-dev libcli11-dev
           libfmt-dev libgtest-dev googletest ngspice)
+# npm fetches the SARIF validator for the tests; a machine with Node.js already has it.
+command -v npm >/dev/null 2>&1 || packages+=(npm)
 missing=()
 for p in "${packages[@]}"; do
   dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")

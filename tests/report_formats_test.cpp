@@ -374,7 +374,7 @@ TEST(MarkdownReport, LoopTableFindingsAndFixes) {
   EXPECT_NE(md.find("*(waived: pull-down sits inside the module)*"), std::string::npos);
   EXPECT_NE(md.find("#### Fixed since baseline (1)"), std::string::npos);
   EXPECT_NE(md.find("hw/inverter.cir:42:1"), std::string::npos);
-  EXPECT_NE(md.find("  - zeta = 0.46, zeta\\_warn = 0.7, r\\_off = 200 mΩ\n"), std::string::npos) << md;
+  EXPECT_NE(md.find("  - zeta = 0.456, zeta\\_warn = 0.7, r\\_off = 200 mΩ\n"), std::string::npos) << md;
   EXPECT_NE(md.find(kSafetyCaution), std::string::npos);
   EXPECT_NE(md.find("**0 errors, 1 warning, 1 note** · 1 accepted in baseline · 1 waived · 1 fixed since baseline"),
             std::string::npos)

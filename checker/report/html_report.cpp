@@ -55,40 +55,17 @@ std::string plural(std::size_t n, const char *word) { return fmt::format("{} {}{
 
 bool active(const Finding &f) { return !f.baseline && !f.waived; }
 
-// Worst use of any external resistor's rating over both edges (average power against the derated
-// rating, peak power against the pulse limit); "-" without rating data.
+// Worst use of any external resistor's rating, power or pulse, "-" without rating data.
 std::string worstUse(const LoopAnalysis &a) {
-  double worst = -1;
-  const char *kind = "";
-  for (const EdgeAnalysis *e : {&a.on, &a.off})
-    for (const auto &l : e->loads) {
-      if (l.deratedPower && l.deratedPower->si() > 0 && l.averagePower / *l.deratedPower > worst) {
-        worst = l.averagePower / *l.deratedPower;
-        kind = "power";
-      }
-      if (l.pulseLimit && l.pulseLimit->si() > 0 && l.peakPower / *l.pulseLimit > worst) {
-        worst = l.peakPower / *l.pulseLimit;
-        kind = "pulse";
-      }
-    }
-  return worst < 0 ? "-" : fmt::format("{:.0f}% {}", worst * 100, kind);
+  auto power = worstPowerUse(a), pulse = worstPulseUse(a);
+  if (!power && !pulse) return "-";
+  bool pulseWorse = pulse && (!power || *pulse > *power);
+  return fmt::format("{:.0f}% {}", (pulseWorse ? *pulse : *power) * 100, pulseWorse ? "pulse" : "power");
 }
 
 std::string verdict(const DesignReport &d, const std::string &loopId) {
-  std::optional<Severity> worst;
-  for (const auto &f : d.findings)
-    if (f.loop == loopId && active(f) && (!worst || f.severity > *worst)) worst = f.severity;
+  auto worst = worstActiveSeverity(d, loopId);
   return worst ? severityName(*worst) : "ok";
-}
-
-std::string where(const SourceLocation &loc, const FileTable &files) {
-  if (loc.file == 0) return "";
-  std::string s = files.name(loc.file);
-  if (loc.line != 0) {
-    s += ":" + std::to_string(loc.line);
-    if (loc.column != 0) s += ":" + std::to_string(loc.column);
-  }
-  return s;
 }
 
 void writeLoopTable(const DesignReport &d, std::ostream &out) {
@@ -137,7 +114,7 @@ void writeFinding(const Finding &f, const FileTable &files, std::ostream &out) {
   if (f.waived)
     out << " <span class=\"status\">(waived" << (f.waiverReason.empty() ? "" : ": " + h(f.waiverReason))
         << ")</span>";
-  if (std::string w = where(f.where, files); !w.empty()) out << "<br/><span class=\"where\">" << h(w) << "</span>";
+  if (std::string w = locationText(f.where, files); !w.empty()) out << "<br/><span class=\"where\">" << h(w) << "</span>";
   if (!f.values.empty()) {
     std::string values;
     for (const auto &v : f.values) values += (values.empty() ? "" : ", ") + v.name + " = " + eng(v.value, unitText(v.unit));

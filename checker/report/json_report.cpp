@@ -123,8 +123,13 @@ ordered_json runJson(const RunReport &report, bool withFindings) {
 
 } // namespace
 
-void writeJsonReport(const RunReport &report, std::ostream &out) { out << runJson(report, true).dump(2) << '\n'; }
+// Names come from user files; invalid UTF-8 in them is replaced rather than thrown on.
+void writeJsonReport(const RunReport &report, std::ostream &out) {
+  out << runJson(report, true).dump(2, ' ', false, nlohmann::ordered_json::error_handler_t::replace) << '\n';
+}
 
-void writeJsonLoops(const RunReport &report, std::ostream &out) { out << runJson(report, false).dump(2) << '\n'; }
+void writeJsonLoops(const RunReport &report, std::ostream &out) {
+  out << runJson(report, false).dump(2, ' ', false, nlohmann::ordered_json::error_handler_t::replace) << '\n';
+}
 
 } // namespace gateloop

@@ -41,47 +41,24 @@ std::string plural(std::size_t n, const char *word) {
 
 bool active(const Finding &f) { return !f.baseline && !f.waived; }
 
-// Worst use of any external resistor's rating over both edges: average power against the derated
-// rating, and peak power against the pulse limit. "-" when no resistor has rating data.
+// Worst use of any external resistor's rating, power or pulse, "-" without rating data.
 std::string worstUse(const LoopAnalysis &a) {
-  double worst = -1;
-  const char *kind = "";
-  for (const EdgeAnalysis *e : {&a.on, &a.off})
-    for (const auto &l : e->loads) {
-      if (l.deratedPower && l.deratedPower->si() > 0 && l.averagePower / *l.deratedPower > worst) {
-        worst = l.averagePower / *l.deratedPower;
-        kind = "power";
-      }
-      if (l.pulseLimit && l.pulseLimit->si() > 0 && l.peakPower / *l.pulseLimit > worst) {
-        worst = l.peakPower / *l.pulseLimit;
-        kind = "pulse";
-      }
-    }
-  return worst < 0 ? "-" : fmt::format("{:.0f}% {}", worst * 100, kind);
+  auto power = worstPowerUse(a), pulse = worstPulseUse(a);
+  if (!power && !pulse) return "-";
+  bool pulseWorse = pulse && (!power || *pulse > *power);
+  return fmt::format("{:.0f}% {}", (pulseWorse ? *pulse : *power) * 100, pulseWorse ? "pulse" : "power");
 }
 
 std::string verdict(const DesignReport &d, const std::string &loopId) {
-  std::optional<Severity> worst;
-  for (const auto &f : d.findings)
-    if (f.loop == loopId && active(f) && (!worst || f.severity > *worst)) worst = f.severity;
+  auto worst = worstActiveSeverity(d, loopId);
   if (!worst) return "ok";
   return *worst == Severity::Error ? "**error**" : severityName(*worst);
-}
-
-std::string where(const Finding &f, const FileTable &files) {
-  if (f.where.file == 0) return "";
-  std::string s = files.name(f.where.file);
-  if (f.where.line != 0) {
-    s += ":" + std::to_string(f.where.line);
-    if (f.where.column != 0) s += ":" + std::to_string(f.where.column);
-  }
-  return s;
 }
 
 void writeFinding(const Finding &f, const FileTable &files, std::ostream &out) {
   std::string subject = f.loop.empty() ? "design" : md(f.loop);
   out << "- **" << subject << "** `" << f.rule << "`: " << md(f.message);
-  if (std::string w = where(f, files); !w.empty()) out << " (" << md(w) << ")";
+  if (std::string w = locationText(f.where, files); !w.empty()) out << " (" << md(w) << ")";
   if (f.baseline) out << " *(accepted in baseline)*";
   if (f.waived) out << " *(waived" << (f.waiverReason.empty() ? "" : ": " + md(f.waiverReason)) << ")*";
   out << '\n';

@@ -50,6 +50,47 @@ void sortFindings(std::vector<Finding> &findings) {
   findings = std::move(sorted);
 }
 
+std::string locationText(const SourceLocation &loc, const FileTable &files) {
+  if (loc.file == 0) return "";
+  std::string s = files.name(loc.file);
+  if (loc.line != 0) {
+    s += ":" + std::to_string(loc.line);
+    if (loc.column != 0) s += ":" + std::to_string(loc.column);
+  }
+  return s;
+}
+
+namespace {
+template <class Use> std::optional<double> worstUse(const LoopAnalysis &a, Use use) {
+  std::optional<double> worst;
+  for (const EdgeAnalysis *e : {&a.on, &a.off})
+    for (const auto &l : e->loads)
+      if (auto u = use(l); u && (!worst || *u > *worst)) worst = u;
+  return worst;
+}
+} // namespace
+
+std::optional<double> worstPowerUse(const LoopAnalysis &a) {
+  return worstUse(a, [](const ResistorLoad &l) -> std::optional<double> {
+    if (!l.deratedPower || l.deratedPower->si() <= 0) return std::nullopt;
+    return l.averagePower / *l.deratedPower;
+  });
+}
+
+std::optional<double> worstPulseUse(const LoopAnalysis &a) {
+  return worstUse(a, [](const ResistorLoad &l) -> std::optional<double> {
+    if (!l.pulseLimit || l.pulseLimit->si() <= 0) return std::nullopt;
+    return l.peakPower / *l.pulseLimit;
+  });
+}
+
+std::optional<Severity> worstActiveSeverity(const DesignReport &d, const std::string &loopId) {
+  std::optional<Severity> worst;
+  for (const auto &f : d.findings)
+    if (f.loop == loopId && !f.baseline && !f.waived && (!worst || f.severity > *worst)) worst = f.severity;
+  return worst;
+}
+
 std::string driverName(const DesignReport &d, const GateLoop &loop) {
   return loop.driver == kNone ? std::string() : d.circuit->component(loop.driver).name;
 }

@@ -8,6 +8,7 @@
 #include "checker/model/circuit.h"
 #include "checker/model/parts.h"
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -51,6 +52,17 @@ ReportSummary summarize(const std::vector<DesignReport> &designs);
 
 /// Sorts findings by location, rule and message so every output is deterministic.
 void sortFindings(std::vector<Finding> &findings);
+
+/// `FILE:LINE:COLUMN` of \p loc, leaving out what is unknown; "" without a file.
+std::string locationText(const SourceLocation &loc, const FileTable &files);
+
+/// Worst use of a rating among a loop's external resistors over both edges, as a fraction:
+/// average power against the derated rating, peak power against the pulse limit.
+std::optional<double> worstPowerUse(const LoopAnalysis &a);
+std::optional<double> worstPulseUse(const LoopAnalysis &a);
+
+/// The worst severity among a loop's findings that are neither accepted nor waived.
+std::optional<Severity> worstActiveSeverity(const DesignReport &d, const std::string &loopId);
 
 /// Name of a loop's driver, "" when none.
 std::string driverName(const DesignReport &d, const GateLoop &loop);

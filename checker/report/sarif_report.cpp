@@ -269,7 +269,9 @@ void writeSarifReport(const RunReport &report, std::ostream &out) {
     artifactIndex[id] = artifacts.size();
     ordered_json loc = artifactLocation(files.name(id));
     anyRelative = anyRelative || loc.contains("uriBaseId");
-    artifacts.push_back({{"location", loc}});
+    // Every file gateloop names is one of its inputs; the role says so (and gives the array
+    // content beyond the locations, which validators otherwise flag as redundant).
+    artifacts.push_back({{"location", loc}, {"roles", ordered_json::array({"analysisTarget"})}});
   }
 
   ordered_json results = ordered_json::array();

@@ -19,13 +19,8 @@ const char *colorOf(Severity s) {
 }
 
 std::string location(const Finding &f, const FileTable &files) {
-  if (f.where.file == 0) return "";
-  std::string s = files.name(f.where.file);
-  if (f.where.line != 0) {
-    s += ":" + std::to_string(f.where.line);
-    if (f.where.column != 0) s += ":" + std::to_string(f.where.column);
-  }
-  return s + ": ";
+  std::string s = locationText(f.where, files);
+  return s.empty() ? s : s + ": ";
 }
 
 void writeFinding(const Finding &f, const FileTable &files, const TextStyle &style, std::ostream &out) {
@@ -50,24 +45,7 @@ std::string opt(const std::optional<Ohm> &v) { return v ? eng(v->si(), "ohm") : 
 template <class Q> std::string opt(const std::optional<Q> &v, const char *unit) { return v ? eng(v->si(), unit) : "-"; }
 std::string optNum(const std::optional<double> &v, int sig = 3) { return v ? eng(*v, "", sig) : "-"; }
 
-// Worst use of a resistor rating over both edges, as a percentage; "-" without rating data.
-template <class Use> std::string worstUse(const LoopAnalysis &a, Use use) {
-  double worst = -1;
-  for (const EdgeAnalysis *e : {&a.on, &a.off})
-    for (const auto &l : e->loads)
-      if (auto u = use(l)) worst = std::max(worst, *u);
-  return worst < 0 ? "-" : fmt::format("{:.0f}%", worst * 100);
-}
-
-std::optional<double> powerUse(const ResistorLoad &l) {
-  if (!l.deratedPower || l.deratedPower->si() <= 0) return std::nullopt;
-  return l.averagePower / *l.deratedPower;
-}
-
-std::optional<double> pulseUse(const ResistorLoad &l) {
-  if (!l.pulseLimit || l.pulseLimit->si() <= 0) return std::nullopt;
-  return l.peakPower / *l.pulseLimit;
-}
+std::string percent(const std::optional<double> &use) { return use ? fmt::format("{:.0f}%", *use * 100) : "-"; }
 
 } // namespace
 
@@ -144,8 +122,8 @@ void writeLoopTable(const RunReport &report, std::ostream &out) {
       out << fmt::format("  {:<16} {:<12} {:>9} {:>9} {:>9} {:>9} {:>7} {:>7} {:>10} {:>8} {:>8} {:>6} {:>6} {:>8}\n",
                          loop.id, drv.empty() ? "-" : drv, opt(a.on.rExternal), opt(a.off.rExternal), opt(l, "H"),
                          opt(a.cGate, "F"), optNum(a.on.zeta, 2), optNum(a.off.zeta, 2), opt(ring, "Hz"),
-                         opt(a.on.iPeak, "A"), opt(a.off.iPeak, "A"), worstUse(a, powerUse),
-                         worstUse(a, pulseUse), opt(a.length, "m"));
+                         opt(a.on.iPeak, "A"), opt(a.off.iPeak, "A"), percent(worstPowerUse(a)),
+                         percent(worstPulseUse(a)), opt(a.length, "m"));
     }
     out << "  (P_R: worst resistor average power as % of its derated rating; pulse: worst peak power as % of "
            "its pulse limit)\n\n";

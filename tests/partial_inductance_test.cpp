@@ -361,6 +361,24 @@ TEST(PartialInductanceDispatch, Symmetric) {
   }
 }
 
+TEST(PartialInductanceDispatch, DegenerateInputGivesNaNOrFiniteValuesQuickly) {
+  const Conductor good = Conductor::bar(pmm(0, 0, 0), pmm(10, 0, 0), mm(0.5), mm(0.035));
+  const Conductor nan = Conductor::bar(pmm(0, std::nan(""), 0), pmm(10, 0, 0), mm(0.5), mm(0.035));
+  const Conductor flat = Conductor::bar(pmm(0, 1, 0), pmm(10, 1, 0), mm(0.5), mm(0));
+  EXPECT_TRUE(std::isnan(mutualPartial(good, nan).si()));
+  EXPECT_TRUE(std::isnan(mutualPartial(good, flat).si()));
+  EXPECT_TRUE(std::isnan(selfPartial(flat).si()));
+  EXPECT_TRUE(std::isnan(filamentMutualNeumann(pmm(0, 0, 0), pmm(1, 0, 0), pmm(0, 1, 0),
+                                               pmm(std::nan(""), 1, 0)).si()));
+  // Two wires lying on top of each other at a 1e-6 rad angle: the filament integral diverges
+  // logarithmically; the capped subdivision returns a large finite value in bounded time.
+  const Conductor w1 = Conductor::wire(pmm(0, 0, 0), pmm(10, 0, 0), mm(0.1));
+  const Conductor w2 = Conductor::wire(pmm(0, 0, 0), pmm(10, 1e-5, 0), mm(0.1));
+  const double m = mutualPartial(w1, w2).si();
+  EXPECT_TRUE(std::isfinite(m));
+  EXPECT_GT(m, selfPartial(w1).si() * 0.5);
+}
+
 TEST(PartialInductanceDispatch, MethodNames) {
   EXPECT_STREQ(mutualMethodName(MutualMethod::HoerLove), "hoer-love");
   EXPECT_STREQ(mutualMethodName(MutualMethod::FarField), "far-field");

@@ -21,7 +21,7 @@ DesignReport analyzeDesign(const LoadedDesign &design, const Project &project,
 
   report.componentCount = 0;
   for (const auto &c : design.circuit.components()) {
-    if (c.hidden || c.kind == ElementKind::Subcircuit && c.part == kNone) continue;
+    if (c.hidden || (c.kind == ElementKind::Subcircuit && c.part == kNone)) continue;
     ++report.componentCount;
     LoopRole role = loopRole(c, design.parts);
     if (role == LoopRole::Switch) ++report.switchCount;

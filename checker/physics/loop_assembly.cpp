@@ -15,6 +15,7 @@ namespace {
 
 constexpr std::size_t kRowsPerTask = 4;
 constexpr std::size_t kMinSegmentsForThreads = 64;
+constexpr unsigned kMaxThreads = 64;
 
 bool finite(Point3 p) { return std::isfinite(p.x) && std::isfinite(p.y) && std::isfinite(p.z); }
 
@@ -133,7 +134,8 @@ std::optional<LoopInductance> loopInductance(const std::vector<LoopSegment> &seg
       for (std::size_t i = i0; i < std::min(n, i0 + kRowsPerTask); ++i) computeRow(i);
     }
   };
-  const unsigned threads = n < kMinSegmentsForThreads ? 1u : std::max(1u, options.threads);
+  const unsigned threads =
+      n < kMinSegmentsForThreads ? 1u : std::clamp(options.threads, 1u, kMaxThreads);
   std::vector<std::thread> pool;
   for (unsigned k = 1; k < threads; ++k) {
     try {

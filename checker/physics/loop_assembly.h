@@ -43,8 +43,8 @@ struct LoopInductance {
 
 /// Tuning of the computation (not of the physics).
 struct LoopOptions {
-  /// Worker threads for the pair sum; 0 or 1 runs on the calling thread. Small loops (under 64
-  /// segments) always run on the calling thread.
+  /// Worker threads for the pair sum (at most 64); 0 or 1 runs on the calling thread. Small
+  /// loops (under 64 segments) always run on the calling thread.
   unsigned threads = 2;
   /// Formula choices for the pairs; MutualOptions{false} gives the slower reference evaluation.
   MutualOptions mutual;

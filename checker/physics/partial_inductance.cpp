@@ -45,8 +45,11 @@ constexpr double kParallelSin = 1e-9;
 constexpr double kPerpendicularCos = 1e-12;
 // Below this angle the coplanar closed form loses digits (its lines meet far away).
 constexpr double kCoplanarMinSin = 0.05;
-// Depth cap of the adaptive Neumann integration (touching or crossing filaments).
+// Depth cap of the adaptive Neumann integration (touching or crossing filaments), and a cap on
+// the number of sub-pairs per pair, so that degenerate input (segments overlapping at a tiny
+// angle) costs a bounded time instead of ~length/separation sub-pairs.
 constexpr int kMaxSubdivisionDepth = 40;
+constexpr int kMaxSubPairs = 4096;
 
 // Round wires in a close parallel pair are replaced by squares with the same geometric mean
 // distance (Maxwell): circle r*exp(-1/4), square 0.44705*a.
@@ -375,27 +378,36 @@ double expansionMeanKernel(V3 r, double invRho, V3 u1, double h1, V3 u2, double 
 /// Adaptive version: splits the piece that is too close until both pieces see the other beyond
 /// the ratio needed by the largest fixed order, then applies the fixed-order rule. Returns
 /// int int K ds dt in m^2/m = m (lengths included).
-double adaptivePair(V3 p0, V3 p1, V3 q0, V3 q1, const Sym3 &cov, bool useCov, int depth) {
+double adaptivePair(V3 p0, V3 p1, V3 q0, V3 q1, const Sym3 &cov, bool useCov, int depth,
+                    int &budget) {
   const V3 mp = 0.5 * (p0 + p1), mq = 0.5 * (q0 + q1);
   const V3 hp = 0.5 * (p1 - p0), hq = 0.5 * (q1 - q0);
   const double lp = norm(hp), lq = norm(hq);
-  if (lp <= 0 || lq <= 0) return 0.0;
+  if (!(lp > 0 && lq > 0)) return 0.0;
   const double r = norm(mq - mp);
   const double ap = (r - lq) / lp, aq = (r - lp) / lq;
   constexpr int kMaxOrder = 12;
   const int np = orderFor(ap, kMaxOrder), nq = orderFor(aq, kMaxOrder);
-  if ((np > 0 && nq > 0) || depth >= kMaxSubdivisionDepth) {
+  --budget;
+  if ((np > 0 && nq > 0) || depth >= kMaxSubdivisionDepth || budget <= 0) {
     const int npp = np > 0 ? np : kMaxOrder, nqq = nq > 0 ? nq : kMaxOrder;
     return lp * lq * gaussPair(mp, hp, mq, hq, npp, nqq, cov, useCov);
   }
   const bool splitP = np == 0 && (nq > 0 || lp >= lq);
   if (splitP) {
-    return adaptivePair(p0, mp, q0, q1, cov, useCov, depth + 1) +
-           adaptivePair(mp, p1, q0, q1, cov, useCov, depth + 1);
+    return adaptivePair(p0, mp, q0, q1, cov, useCov, depth + 1, budget) +
+           adaptivePair(mp, p1, q0, q1, cov, useCov, depth + 1, budget);
   }
-  return adaptivePair(p0, p1, q0, mq, cov, useCov, depth + 1) +
-         adaptivePair(p0, p1, mq, q1, cov, useCov, depth + 1);
+  return adaptivePair(p0, p1, q0, mq, cov, useCov, depth + 1, budget) +
+         adaptivePair(p0, p1, mq, q1, cov, useCov, depth + 1, budget);
 }
+
+double adaptivePair(V3 p0, V3 p1, V3 q0, V3 q1, const Sym3 &cov, bool useCov) {
+  int budget = kMaxSubPairs;
+  return adaptivePair(p0, p1, q0, q1, cov, useCov, 0, budget);
+}
+
+bool finite(V3 v) { return std::isfinite(v.x) && std::isfinite(v.y) && std::isfinite(v.z); }
 
 /// Closest distance between segments p0-p1 and q0-q1 (clamped parameters).
 double segmentDistance(V3 p0, V3 p1, V3 q0, V3 q1) {
@@ -474,6 +486,7 @@ double rosaWireSelf(double l, double r) {
 Henry selfPartial(const Conductor &c) { return selfPartial(PreparedConductor(c)); }
 
 Henry selfPartial(const PreparedConductor &c) {
+  if (!c.valid_) return Henry(kNaN);
   if (c.len_ <= 0) return Henry(0.0);
   if (c.c_.section == CrossSection::Round) return Henry(rosaWireSelf(c.len_, 0.5 * c.w_));
   return barSelfPartial(Meter(c.w_), Meter(c.t_), Meter(c.len_));
@@ -514,11 +527,12 @@ Henry filamentMutualCoplanar(Meter a1, Meter a2, Meter b1, Meter b2, double epsR
 
 Henry filamentMutualNeumann(Point3 a1, Point3 b1, Point3 a2, Point3 b2) {
   const V3 p0 = toV(a1), p1 = toV(b1), q0 = toV(a2), q1 = toV(b2);
+  if (!finite(p0) || !finite(p1) || !finite(q0) || !finite(q1)) return Henry(kNaN);
   const double lp = norm(p1 - p0), lq = norm(q1 - q0);
   if (lp <= 0 || lq <= 0) return Henry(0.0);
   const double c = dot(p1 - p0, q1 - q0) / (lp * lq);
   const Sym3 none;
-  return Henry(kMu0Over4Pi * c * adaptivePair(p0, p1, q0, q1, none, false, 0));
+  return Henry(kMu0Over4Pi * c * adaptivePair(p0, p1, q0, q1, none, false));
 }
 
 // ---- prepared conductors and the dispatcher ---------------------------------------------------
@@ -546,7 +560,8 @@ PreparedConductor::PreparedConductor(const Conductor &c) : c_(c) {
   w_ = c.width.si();
   t_ = c.section == CrossSection::Round ? c.width.si() : c.thickness.si();
   maxDim_ = std::max(w_, t_);
-  if (len_ <= 0) return;
+  valid_ = finite(a) && finite(b) && std::isfinite(w_) && std::isfinite(t_) && w_ > 0 && t_ > 0;
+  if (!valid_ || len_ <= 0) return;
   const V3 u = (1.0 / len_) * (b - a);
   store(u_, u);
   // Width lies in the x-y plane, perpendicular to the axis; a (nearly) vertical conductor takes
@@ -586,11 +601,12 @@ private:
   static MutualPartial parallel(const PreparedConductor &p, const PreparedConductor &q, double c);
   static double parallelPieces(const PreparedConductor &p, const PreparedConductor &q, double pS0,
                                double pS1, double qS0, double qS1, double X, double Y, double S,
-                               bool &usedHoerLove, int depth);
+                               bool &usedHoerLove, int &budget);
 };
 
 MutualPartial PairEvaluator::evaluate(const PreparedConductor &p, const PreparedConductor &q,
                                       bool farField) {
+  if (!p.valid_ || !q.valid_) return {Henry(kNaN), MutualMethod::Zero};
   if (p.len_ <= 0 || q.len_ <= 0) return {Henry(0.0), MutualMethod::Zero};
   const V3 up = toV(p.u_), uq = toV(q.u_);
   const double c = dot(up, uq);
@@ -623,7 +639,7 @@ MutualPartial PairEvaluator::evaluate(const PreparedConductor &p, const Prepared
   const V3 pa = toV(p.a_), pb = toV(p.b_), qa = toV(q.a_), qb = toV(q.b_);
   const double dist = segmentDistance(pa, pb, qa, qb);
   if (dist >= kSectionExpansionRatio * sizeD) {
-    return {Henry(kMu0Over4Pi * c * adaptivePair(pa, pb, qa, qb, cov, true, 0)),
+    return {Henry(kMu0Over4Pi * c * adaptivePair(pa, pb, qa, qb, cov, true)),
             MutualMethod::Neumann};
   }
   // Close and at an angle: centre-line filaments (the section matters only near a bend, where
@@ -642,7 +658,7 @@ MutualPartial PairEvaluator::evaluate(const PreparedConductor &p, const Prepared
     return {Henry(v), MutualMethod::CoplanarFilament};
   }
   const Sym3 none;
-  return {Henry(kMu0Over4Pi * c * adaptivePair(pa, pb, qa, qb, none, false, 0)),
+  return {Henry(kMu0Over4Pi * c * adaptivePair(pa, pb, qa, qb, none, false)),
           MutualMethod::Neumann};
 }
 
@@ -655,16 +671,18 @@ MutualPartial PairEvaluator::parallel(const PreparedConductor &p, const Prepared
   const double X = dot(delta, toV(p.wdir_)), Y = dot(delta, toV(p.tdir_));
   const double S = dot(delta, toV(p.u_));
   bool usedHoerLove = false;
-  const double v = parallelPieces(p, q, 0.0, p.len_, 0.0, q.len_, X, Y, S, usedHoerLove, 0);
+  int budget = kMaxSubPairs;
+  const double v = parallelPieces(p, q, 0.0, p.len_, 0.0, q.len_, X, Y, S, usedHoerLove, budget);
   return {Henry(sign * v), usedHoerLove ? MutualMethod::HoerLove : MutualMethod::ParallelFilament};
 }
 
 /// Mutual of the part [pS0, pS1] of p with the part [qS0, qS1] of q (axial coordinates from each
 /// start; q's start sits at (X, Y, S) in p's frame). Splits axially when Hoer-Love would be badly
-/// conditioned; the mutual is additive over pieces, so splitting is exact.
+/// conditioned; the mutual is additive over pieces, so splitting is exact. \p budget bounds the
+/// number of splits for absurdly long bars (kilometres of thin trace).
 double PairEvaluator::parallelPieces(const PreparedConductor &p, const PreparedConductor &q,
                                      double pS0, double pS1, double qS0, double qS1, double X,
-                                     double Y, double S, bool &usedHoerLove, int depth) {
+                                     double Y, double S, bool &usedHoerLove, int &budget) {
   const double l1 = pS1 - pS0, l2 = qS1 - qS0;
   const double s = S + qS0 - pS0; // start of the q piece relative to the start of the p piece
   const double d = std::hypot(X, Y);
@@ -690,15 +708,15 @@ double PairEvaluator::parallelPieces(const PreparedConductor &p, const PreparedC
   const double maxAxial = std::max({std::abs(s - l1), std::abs(s + l2 - l1), std::abs(s + l2),
                                     std::abs(s)});
   const double secRoot = std::sqrt(std::min(w1 * t1, w2 * t2));
-  if (maxAxial > kHoerLoveMaxRatio * secRoot && depth < 30) {
+  if (maxAxial > kHoerLoveMaxRatio * secRoot && --budget > 0) {
     if (l1 >= l2) {
       const double m = 0.5 * (pS0 + pS1);
-      return parallelPieces(p, q, pS0, m, qS0, qS1, X, Y, S, usedHoerLove, depth + 1) +
-             parallelPieces(p, q, m, pS1, qS0, qS1, X, Y, S, usedHoerLove, depth + 1);
+      return parallelPieces(p, q, pS0, m, qS0, qS1, X, Y, S, usedHoerLove, budget) +
+             parallelPieces(p, q, m, pS1, qS0, qS1, X, Y, S, usedHoerLove, budget);
     }
     const double m = 0.5 * (qS0 + qS1);
-    return parallelPieces(p, q, pS0, pS1, qS0, m, X, Y, S, usedHoerLove, depth + 1) +
-           parallelPieces(p, q, pS0, pS1, m, qS1, X, Y, S, usedHoerLove, depth + 1);
+    return parallelPieces(p, q, pS0, pS1, qS0, m, X, Y, S, usedHoerLove, budget) +
+           parallelPieces(p, q, pS0, pS1, m, qS1, X, Y, S, usedHoerLove, budget);
   }
   usedHoerLove = true;
   if (maxAxial <= kHoerLoveDoubleRatio * secRoot)

@@ -70,7 +70,8 @@ Henry barSelfPartial(Meter width, Meter thickness, Meter length);
 
 /// Self partial inductance of \p c: barSelfPartial for a bar; for a round wire Rosa's form
 /// (mu0 l / 2 pi) [asinh(l/r) - sqrt(1 + (r/l)^2) + r/l + 1/4] including the DC internal term.
-/// Zero for a zero-length conductor.
+/// Zero for a zero-length conductor; NaN for a non-finite coordinate or a section size that is
+/// not positive (loop_assembly.h checks its input for these).
 Henry selfPartial(const Conductor &c);
 
 // ---- mutual partial inductance: parallel conductors -------------------------------------------
@@ -171,6 +172,7 @@ private:
   double w_ = 0.0, t_ = 0.0;      // section sizes (round: both the diameter)
   double maxDim_ = 0.0;           // largest section dimension
   double cov_[6] = {0, 0, 0, 0, 0, 0}; // section covariance xx, yy, zz, xy, xz, yz (m^2)
+  bool valid_ = false;            // finite coordinates, positive finite section
 };
 
 /// Self partial inductance of a prepared conductor (same as selfPartial(const Conductor&)).
@@ -182,7 +184,7 @@ Henry selfPartial(const PreparedConductor &c);
 /// filament formula with a cross-section correction; at an angle and close -> closed form when
 /// coplanar, else adaptive Gauss-Legendre. Symmetric: M(p, q) = M(q, p) to about 1e-9. Round
 /// wires close to a parallel conductor are treated as squares of equal geometric mean distance.
-/// Use selfPartial for a conductor's own term.
+/// Use selfPartial for a conductor's own term. NaN for invalid conductors (see selfPartial).
 MutualPartial mutualPartialDetailed(const PreparedConductor &p, const PreparedConductor &q,
                                     const MutualOptions &options = {});
 

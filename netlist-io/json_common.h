@@ -7,6 +7,7 @@
 
 #include "checker/core/diagnostics.h"
 #include "checker/core/quantity_text.h"
+#include "checker/core/text_util.h"
 
 #include <nlohmann/json.hpp>
 
@@ -38,9 +39,8 @@ std::string childPath(const std::string &parent, std::string_view key);
 /// `parent[i]`.
 std::string indexPath(const std::string &parent, std::size_t index);
 
-/// The candidate closest to \p word by edit distance (case-insensitive), when close enough to be
-/// a plausible typo.
-std::optional<std::string> closestMatch(std::string_view word, const std::vector<std::string> &candidates);
+/// "Did you mean" candidates use the project-wide matcher.
+using gateloop::closestMatch;
 
 /// A short JSON rendering of \p v for messages (long values are cut with "...").
 std::string brief(const Json &v);

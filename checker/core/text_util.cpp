@@ -1,38 +1,49 @@
 #include "checker/core/text_util.h"
 
 #include <algorithm>
-#include <numeric>
 
 namespace gateloop {
 
+namespace {
+char lower(char c) { return c >= 'A' && c <= 'Z' ? static_cast<char>(c - 'A' + 'a') : c; }
+} // namespace
+
 std::size_t editDistance(std::string_view a, std::string_view b) {
-  std::vector<std::size_t> row(b.size() + 1);
-  std::iota(row.begin(), row.end(), std::size_t{0});
-  for (std::size_t i = 1; i <= a.size(); ++i) {
-    std::size_t diag = row[0];
-    row[0] = i;
-    for (std::size_t j = 1; j <= b.size(); ++j) {
-      std::size_t up = row[j];
-      row[j] = std::min({row[j] + 1, row[j - 1] + 1, diag + (a[i - 1] == b[j - 1] ? 0u : 1u)});
-      diag = up;
+  const std::size_t n = a.size(), m = b.size();
+  std::vector<std::vector<std::size_t>> d(n + 1, std::vector<std::size_t>(m + 1));
+  for (std::size_t i = 0; i <= n; ++i) d[i][0] = i;
+  for (std::size_t j = 0; j <= m; ++j) d[0][j] = j;
+  for (std::size_t i = 1; i <= n; ++i)
+    for (std::size_t j = 1; j <= m; ++j) {
+      std::size_t cost = lower(a[i - 1]) == lower(b[j - 1]) ? 0 : 1;
+      d[i][j] = std::min({d[i - 1][j] + 1, d[i][j - 1] + 1, d[i - 1][j - 1] + cost});
+      if (i > 1 && j > 1 && lower(a[i - 1]) == lower(b[j - 2]) && lower(a[i - 2]) == lower(b[j - 1]))
+        d[i][j] = std::min(d[i][j], d[i - 2][j - 2] + 1);
     }
-  }
-  return row[b.size()];
+  return d[n][m];
 }
 
-std::string didYouMean(std::string_view word, const std::vector<std::string> &candidates) {
-  const std::string *best = nullptr;
+std::optional<std::string> closestMatch(std::string_view word, const std::vector<std::string> &candidates) {
+  std::optional<std::string> best;
   std::size_t bestDistance = 0;
+  // Up to a third of the word may differ; anything further is another word, not a typo.
+  const std::size_t limit = std::max<std::size_t>(1, word.size() / 3);
   for (const auto &c : candidates) {
     std::size_t d = editDistance(word, c);
-    if (!best || d < bestDistance) {
-      best = &c;
+    if (d > limit && word.size() >= 3 && c.size() > word.size() &&
+        std::equal(word.begin(), word.end(), c.begin(), [](char a, char b) { return lower(a) == lower(b); }))
+      d = limit;
+    if (d <= limit && (!best || d < bestDistance)) {
+      best = c;
       bestDistance = d;
     }
   }
-  // Beyond a third of the word's length a suggestion is more confusing than helpful.
-  if (!best || bestDistance == 0 || bestDistance > std::max<std::size_t>(2, word.size() / 3)) return {};
-  return "; did you mean \"" + *best + "\"?";
+  return best;
+}
+
+std::string didYouMean(std::string_view word, const std::vector<std::string> &candidates) {
+  auto best = closestMatch(word, candidates);
+  return best ? "; did you mean \"" + *best + "\"?" : std::string();
 }
 
 } // namespace gateloop

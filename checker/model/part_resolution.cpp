@@ -4,6 +4,8 @@
 
 #include "checker/model/part_resolution.h"
 
+#include "checker/core/text_util.h"
+
 #include <algorithm>
 #include <unordered_map>
 
@@ -13,36 +15,13 @@ namespace {
 
 char lower(char c) { return c >= 'A' && c <= 'Z' ? static_cast<char>(c - 'A' + 'a') : c; }
 
-/// Optimal string alignment distance, ignoring case (for "did you mean").
-std::size_t editDistance(std::string_view a, std::string_view b) {
-  const std::size_t n = a.size(), m = b.size();
-  std::vector<std::vector<std::size_t>> d(n + 1, std::vector<std::size_t>(m + 1));
-  for (std::size_t i = 0; i <= n; ++i) d[i][0] = i;
-  for (std::size_t j = 0; j <= m; ++j) d[0][j] = j;
-  for (std::size_t i = 1; i <= n; ++i)
-    for (std::size_t j = 1; j <= m; ++j) {
-      std::size_t cost = lower(a[i - 1]) == lower(b[j - 1]) ? 0 : 1;
-      d[i][j] = std::min({d[i - 1][j] + 1, d[i][j - 1] + 1, d[i - 1][j - 1] + cost});
-      if (i > 1 && j > 1 && lower(a[i - 1]) == lower(b[j - 2]) && lower(a[i - 2]) == lower(b[j - 1]))
-        d[i][j] = std::min(d[i][j], d[i - 2][j - 2] + 1);
-    }
-  return d[n][m];
-}
-
 std::string unknownPartMessage(const std::string &id, const PartLibrary &lib, const std::string &element = {}) {
   std::string msg = "unknown part \"" + id + "\"";
   if (!element.empty()) msg += " on " + element;
-  const std::string *best = nullptr;
-  std::size_t bestDistance = std::max<std::size_t>(1, id.size() / 3) + 1;
-  for (const auto &p : lib.parts) {
-    std::size_t d = editDistance(id, p.id);
-    if (d < bestDistance) {
-      best = &p.id;
-      bestDistance = d;
-    }
-  }
-  if (best) msg += "; did you mean \"" + *best + "\"?";
-  else if (lib.parts.empty()) msg += " (no parts library is loaded)";
+  std::vector<std::string> ids;
+  for (const auto &p : lib.parts) ids.push_back(p.id);
+  if (lib.parts.empty()) msg += " (no parts library is loaded)";
+  else msg += didYouMean(id, ids);
   return msg;
 }
 

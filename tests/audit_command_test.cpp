@@ -2,6 +2,8 @@
 /// `gateloop audit`, run as the built binary over a scratch copy of tests/cli/audit: two readable
 /// projects and one broken one, plus hidden and build folders that must be skipped.
 
+#include "test_support.h"
+
 #include <gtest/gtest.h>
 #include <nlohmann/json.hpp>
 
@@ -15,57 +17,11 @@
 #include <vector>
 
 namespace fs = std::filesystem;
+using namespace gateloop::testing;
 
 namespace {
 
 const fs::path kAuditData = fs::path(GATELOOP_TEST_DATA) / "cli" / "audit";
-
-class TempDir {
-public:
-  explicit TempDir(const std::string &prefix) {
-    std::string pattern = (fs::temp_directory_path() / (prefix + "XXXXXX")).string();
-    if (!::mkdtemp(pattern.data())) throw std::runtime_error("mkdtemp failed");
-    path_ = pattern;
-  }
-  ~TempDir() {
-    std::error_code ec;
-    fs::remove_all(path_, ec);
-  }
-  const fs::path &path() const { return path_; }
-
-private:
-  fs::path path_;
-};
-
-std::string quote(const std::string &s) {
-  std::string q = "'";
-  for (char c : s) q += c == '\'' ? std::string("'\\''") : std::string(1, c);
-  return q + "'";
-}
-
-std::string readFile(const fs::path &p) {
-  std::ifstream in(p, std::ios::binary);
-  std::ostringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
-
-struct RunResult {
-  int status = -1;
-  std::string out, err;
-};
-
-RunResult runGateloop(const fs::path &cwd, const std::string &args) {
-  TempDir capture("gateloop-audit-capture-");
-  std::string cmd = "cd " + quote(cwd.string()) + " && " + quote(GATELOOP_BINARY) + " " + args + " >" +
-                    quote((capture.path() / "out").string()) + " 2>" + quote((capture.path() / "err").string());
-  int raw = std::system(cmd.c_str());
-  RunResult r;
-  r.status = WIFEXITED(raw) ? WEXITSTATUS(raw) : -1;
-  r.out = readFile(capture.path() / "out");
-  r.err = readFile(capture.path() / "err");
-  return r;
-}
 
 /// A strict RFC 4180 reader: CRLF records, quoted fields with doubled quotes. Fails the test on
 /// anything else, so the writer's quoting is checked, not just tolerated.

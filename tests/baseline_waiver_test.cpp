@@ -1,11 +1,12 @@
 // Baselines, waivers, --fail-on, --rule and project discovery, end to end through the binary on
 // a copy of the clean example (spec sections 2 and 4.5).
+#include "test_support.h"
+
 #include <gtest/gtest.h>
 
 #include <nlohmann/json.hpp>
 
-#include <array>
-#include <cstdio>
+#include <functional>
 #include <filesystem>
 #include <fstream>
 #include <regex>
@@ -14,6 +15,7 @@
 #include <unistd.h>
 
 namespace fs = std::filesystem;
+using namespace gateloop::testing;
 
 namespace {
 
@@ -21,13 +23,6 @@ struct Result {
   int status = -1;
   std::string out;
 };
-
-std::string readFile(const fs::path &p) {
-  std::ifstream in(p, std::ios::binary);
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return ss.str();
-}
 
 class BaselineWaiver : public ::testing::Test {
 protected:
@@ -45,15 +40,8 @@ protected:
   void TearDown() override { fs::remove_all(root_); }
 
   Result run(const std::string &args, const fs::path &cwd, const std::string &today = "2026-12-01") {
-    std::string cmd = "cd '" + cwd.string() + "' && GATELOOP_TODAY=" + today + " " + GATELOOP_BINARY + " " + args + " 2>&1";
-    Result r;
-    FILE *pipe = popen(cmd.c_str(), "r");
-    std::array<char, 4096> buf{};
-    std::size_t n;
-    while ((n = fread(buf.data(), 1, buf.size(), pipe)) > 0) r.out.append(buf.data(), n);
-    int status = pclose(pipe);
-    r.status = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-    return r;
+    RunResult r = runGateloop(cwd, args, "GATELOOP_TODAY=" + today);
+    return {r.status, r.all()};
   }
 
   // Seeds a fault: the low-side turn-off resistor drops below the recommended 1 ohm.

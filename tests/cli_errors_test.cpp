@@ -1,10 +1,11 @@
 // The command line on bad input: exit status 2, every error as FILE:LINE:COLUMN: error: MESSAGE
 // (or FILE: FIELD.PATH: error: ...), never a crash, and never a half-written report over an
 // existing output file (spec section 2).
+#include "test_support.h"
+
 #include <gtest/gtest.h>
 
-#include <array>
-#include <cstdio>
+#include <chrono>
 #include <filesystem>
 #include <fstream>
 #include <sstream>
@@ -12,6 +13,7 @@
 #include <unistd.h>
 
 namespace fs = std::filesystem;
+using namespace gateloop::testing;
 
 namespace {
 
@@ -35,15 +37,8 @@ protected:
   }
 
   Result run(const std::string &args) {
-    std::string cmd = "cd '" + dir_.string() + "' && " + GATELOOP_BINARY + " " + args + " 2>&1";
-    Result r;
-    FILE *pipe = popen(cmd.c_str(), "r");
-    std::array<char, 4096> buf{};
-    std::size_t n;
-    while ((n = fread(buf.data(), 1, buf.size(), pipe)) > 0) r.out.append(buf.data(), n);
-    int status = pclose(pipe);
-    r.status = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-    return r;
+    RunResult r = runGateloop(dir_, args);
+    return {r.status, r.all()};
   }
 
   fs::path dir_;

@@ -1,41 +1,21 @@
 // The bundled examples, run through the built binary, against their reviewed expected output in
 // tests/examples/. Regenerate with UPDATE_GOLDEN=1 and review the diff before committing.
+#include "test_support.h"
+
 #include <gtest/gtest.h>
 
-#include <array>
-#include <cstdio>
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
-#include <sstream>
-#include <sys/wait.h>
+
+using namespace gateloop::testing;
 
 namespace {
 
-struct RunResult {
-  int status = -1;
-  std::string out;
-};
-
+// Output of `gateloop ARGS` run from the source folder, with a fixed date and no colour.
 RunResult runInSourceDir(const std::string &args) {
-  std::string cmd = std::string("cd ") + GATELOOP_SOURCE_DIR + " && GATELOOP_TODAY=2026-12-01 NO_COLOR=1 " +
-                    GATELOOP_BINARY + " " + args + " 2>&1";
-  RunResult r;
-  FILE *pipe = popen(cmd.c_str(), "r");
-  if (!pipe) return r;
-  std::array<char, 4096> buf{};
-  std::size_t n;
-  while ((n = fread(buf.data(), 1, buf.size(), pipe)) > 0) r.out.append(buf.data(), n);
-  int status = pclose(pipe);
-  r.status = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  return r;
-}
-
-std::string readFile(const std::filesystem::path &p) {
-  std::ifstream in(p, std::ios::binary);
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return ss.str();
+  RunResult r = runGateloop(GATELOOP_SOURCE_DIR, args, "GATELOOP_TODAY=2026-12-01 NO_COLOR=1");
+  return {r.status, r.all(), ""};
 }
 
 // The version line changes with every release; it is not part of what the examples check.

@@ -2,6 +2,8 @@
 /// `gateloop init`, run as the built binary in a scratch folder: the files it writes, that
 /// `gateloop check` loads them, that it never overwrites without --force, and its errors.
 
+#include "test_support.h"
+
 #include <gtest/gtest.h>
 #include <nlohmann/json.hpp>
 
@@ -17,66 +19,14 @@
 #include <sys/wait.h>
 
 namespace fs = std::filesystem;
+using namespace gateloop::testing;
 
 namespace {
 
 const fs::path kCliData = fs::path(GATELOOP_TEST_DATA) / "cli";
 
-/// A fresh folder below the system temp folder, removed with everything in it.
-class TempDir {
-public:
-  explicit TempDir(const std::string &prefix) {
-    std::string pattern = (fs::temp_directory_path() / (prefix + "XXXXXX")).string();
-    if (!::mkdtemp(pattern.data())) throw std::runtime_error("mkdtemp failed");
-    path_ = pattern;
-  }
-  ~TempDir() {
-    std::error_code ec;
-    fs::remove_all(path_, ec);
-  }
-  const fs::path &path() const { return path_; }
-
-private:
-  fs::path path_;
-};
-
-std::string quote(const std::string &s) {
-  std::string q = "'";
-  for (char c : s) q += c == '\'' ? std::string("'\\''") : std::string(1, c);
-  return q + "'";
-}
-
-std::string readFile(const fs::path &p) {
-  std::ifstream in(p, std::ios::binary);
-  std::ostringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
-
-void writeFile(const fs::path &p, const std::string &text) {
-  fs::create_directories(p.parent_path());
-  std::ofstream(p, std::ios::binary) << text;
-}
-
-struct RunResult {
-  int status = -1;
-  std::string out, err;
-};
-
 /// Runs the gateloop binary with \p args in folder \p cwd; stdout and stderr are captured in a
 /// separate folder so they never show up among the files under test.
-RunResult runGateloop(const fs::path &cwd, const std::string &args) {
-  TempDir capture("gateloop-init-capture-");
-  std::string cmd = "cd " + quote(cwd.string()) + " && " + quote(GATELOOP_BINARY) + " " + args + " >" +
-                    quote((capture.path() / "out").string()) + " 2>" + quote((capture.path() / "err").string());
-  int raw = std::system(cmd.c_str());
-  RunResult r;
-  r.status = WIFEXITED(raw) ? WEXITSTATUS(raw) : -1;
-  r.out = readFile(capture.path() / "out");
-  r.err = readFile(capture.path() / "err");
-  return r;
-}
-
 std::string lower(std::string s) {
   for (char &c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
   return s;

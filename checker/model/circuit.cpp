@@ -115,7 +115,8 @@ ComponentId Circuit::addComponent(Component c, std::span<const NetId> nets, std:
   c.pinNames = pinNamesId;
   pinNets_.insert(pinNets_.end(), nets.begin(), nets.end());
   components_.push_back(std::move(c));
-  componentIndex_.clear();
+  // clear() walks every bucket even when empty; readers add millions of components.
+  if (!componentIndex_.empty()) componentIndex_.clear();
   return static_cast<ComponentId>(components_.size() - 1);
 }
 

@@ -55,3 +55,9 @@ TEST(Examples, CleanHalfBridgeText) {
 TEST(Examples, CleanHalfBridgeLoops) {
   expectGolden("clean-halfbridge.loops.json", "loops examples/clean-halfbridge/gateloop.json --format json", 0);
 }
+TEST(Examples, InverterMarkdown) {
+  expectGolden("inverter-3ph.md", "check examples/inverter-3ph/gateloop.json --format markdown", 1);
+}
+TEST(Examples, CleanHalfBridgeMarkdown) {
+  expectGolden("clean-halfbridge.md", "check examples/clean-halfbridge/gateloop.json --format markdown", 0);
+}

@@ -347,23 +347,21 @@ const char *shuntKindName(ShuntKind k) {
 }
 
 NetId rolePinNet(const Circuit &circuit, const Component &c, const Part &part, const std::string &role) {
-  static const std::unordered_map<std::string, std::vector<std::string>> kAliases = {
-      {"emitter", {"emitter", "source"}}, {"source", {"source", "emitter"}},
-      {"collector", {"collector", "drain"}}, {"drain", {"drain", "collector"}}};
-  std::vector<std::string> names{role};
-  if (auto a = kAliases.find(role); a != kAliases.end()) names = a->second;
-  for (const auto &name : names) {
-    auto it = part.pins.find(name);
-    if (it != part.pins.end()) return circuit.pinNet(c, it->second);
-  }
+  // Emitter/source and collector/drain name the same terminal of an IGBT or a MOSFET.
+  std::string_view alias = role == "emitter"     ? "source"
+                           : role == "source"    ? "emitter"
+                           : role == "collector" ? "drain"
+                           : role == "drain"     ? "collector"
+                                                 : "";
+  auto it = part.pins.find(role);
+  if (it == part.pins.end() && !alias.empty()) it = part.pins.find(std::string(alias));
+  if (it != part.pins.end()) return circuit.pinNet(c, it->second);
   // Parts without a pin map on primitive SPICE transistors use the element's own pin order.
-  static const std::unordered_map<std::string, std::pair<const char *, const char *>> kPrimitive = {
-      {"gate", {"g", "b"}}, {"emitter", {"s", "e"}}, {"source", {"s", "e"}},
-      {"collector", {"d", "c"}}, {"drain", {"d", "c"}}};
-  auto prim = kPrimitive.find(role);
-  if (prim == kPrimitive.end()) return kNone;
-  if (c.kind == ElementKind::Mosfet) return circuit.pinNet(c, prim->second.first);
-  if (c.kind == ElementKind::Bjt) return circuit.pinNet(c, prim->second.second);
+  bool mos = c.kind == ElementKind::Mosfet, bjt = c.kind == ElementKind::Bjt;
+  if (!mos && !bjt) return kNone;
+  if (role == "gate") return circuit.pinNet(c, mos ? "g" : "b");
+  if (role == "emitter" || role == "source") return circuit.pinNet(c, mos ? "s" : "e");
+  if (role == "collector" || role == "drain") return circuit.pinNet(c, mos ? "d" : "c");
   return kNone;
 }
 

@@ -189,6 +189,7 @@ NetsInductance layoutInductance(const std::vector<NetId> &outgoing, NetId ref, c
     if (auto fromTraces = traceInductance(outgoing, ref, circuit, *layout)) return std::move(*fromTraces);
   }
   Accumulator acc(layout, op);
+  if (!layout) return acc.finish(false);
   for (NetId n : outgoing)
     if (n != kNone) acc.addNet(circuit.netAt(n).name);
   if (ref != kNone) acc.addNet(circuit.netAt(ref).name);

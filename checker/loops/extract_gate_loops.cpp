@@ -3,6 +3,7 @@
 #include <boost/graph/adjacency_list.hpp>
 
 #include <algorithm>
+#include <span>
 #include <unordered_map>
 #include <unordered_set>
 
@@ -52,19 +53,35 @@ bool visible(const Component &c, const PartLibrary &lib) {
 class Extractor {
 public:
   Extractor(const Circuit &circuit, const PartLibrary &lib)
-      : circuit_(circuit), lib_(lib), graph_(circuit.nets().size()), pinsOnNet_(circuit.nets().size()) {
+      : circuit_(circuit), lib_(lib), graph_(circuit.nets().size()) {
     const auto &comps = circuit_.components();
     roles_.resize(comps.size(), LoopRole::Other);
+    // Pins by net in one flat array (counted, then filled): a vector per net would cost one
+    // allocation for each of a large deck's hundreds of thousands of nets.
+    pinStart_.assign(circuit_.nets().size() + 1, 0);
     for (ComponentId id = 0; id < comps.size(); ++id) {
       const Component &c = comps[id];
       if (!visible(c, lib_)) continue;
       roles_[id] = loopRole(c, lib_);
+      for (NetId n : circuit_.pins(c)) ++pinStart_[n + 1];
       auto pins = circuit_.pins(c);
-      for (std::uint16_t p = 0; p < pins.size(); ++p) pinsOnNet_[pins[p]].push_back({id, p});
       if (isSeriesRole(roles_[id]) && pins.size() == 2 && pins[0] != pins[1])
         boost::add_edge(pins[0], pins[1], SeriesEdge{id}, graph_);
       if (roles_[id] == LoopRole::Driver) indexDriverOutputs(id, c);
     }
+    for (std::size_t n = 1; n < pinStart_.size(); ++n) pinStart_[n] += pinStart_[n - 1];
+    pinRefs_.resize(pinStart_.back());
+    std::vector<std::uint32_t> fill(pinStart_.begin(), pinStart_.end() - 1);
+    for (ComponentId id = 0; id < comps.size(); ++id) {
+      if (!visible(comps[id], lib_)) continue;
+      auto pins = circuit_.pins(comps[id]);
+      for (std::uint16_t p = 0; p < pins.size(); ++p) pinRefs_[fill[pins[p]]++] = {id, p};
+    }
+  }
+
+  /// The pins on net \p n.
+  std::span<const PinRef> pinsOnNet(NetId n) const {
+    return {pinRefs_.data() + pinStart_[n], pinStart_[n + 1] - pinStart_[n]};
   }
 
   std::vector<GateLoop> run() {
@@ -113,7 +130,7 @@ private:
   }
 
   bool netReachesOtherComponent(NetId net, ComponentId self) const {
-    for (const auto &p : pinsOnNet_[net])
+    for (const auto &p : pinsOnNet(net))
       if (p.component != self) return true;
     return false;
   }
@@ -213,7 +230,7 @@ private:
       for (std::size_t i = 1; i < p.nets.size(); ++i) gateSide.insert(p.nets[i]);
     std::unordered_set<ComponentId> seen;
     for (NetId g : gateSide) {
-      for (const PinRef &pr : pinsOnNet_[g]) {
+      for (const PinRef &pr : pinsOnNet(g)) {
         if (!seen.insert(pr.component).second) continue;
         const Component &c = circuit_.component(pr.component);
         LoopRole role = roles_[pr.component];
@@ -261,7 +278,7 @@ private:
 
   // Back-to-back Zeners: gate -> Z1 -> mid -> Z2 -> reference, with nothing else on mid.
   void addSeriesClampPair(GateLoop &loop, ComponentId first, NetId mid) {
-    const auto &onMid = pinsOnNet_[mid];
+    auto onMid = pinsOnNet(mid);
     if (onMid.size() != 2) return;
     const PinRef &second = onMid[0].component == first ? onMid[1] : onMid[0];
     LoopRole r2 = roles_[second.component];
@@ -301,7 +318,8 @@ private:
   const Circuit &circuit_;
   const PartLibrary &lib_;
   SeriesGraph graph_;
-  std::vector<std::vector<PinRef>> pinsOnNet_;
+  std::vector<std::uint32_t> pinStart_;  ///< net n's pins are pinRefs_[pinStart_[n] .. pinStart_[n+1])
+  std::vector<PinRef> pinRefs_;
   std::vector<LoopRole> roles_;
   std::unordered_map<NetId, std::vector<DriverOutput>> driverOutputs_;
 };

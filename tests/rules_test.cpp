@@ -400,6 +400,17 @@ TEST(LeadLength, DampingBasedMaximumFromLayout) {
   EXPECT_NEAR(value(f[0], "max"), (2.040816e-9 - 0.5e-9) / 246.911e-9, 2e-6);
 }
 
+TEST(LeadLength, ShortLoopPasses) {
+  // 5 mm of the same trace stays under the 6.24 mm damping-based maximum computed above.
+  const char *layout = R"({ "schema": "gateloop-layout/1",
+    "stackup": {"top": {"z": "0 mm", "copper": "35 um"}, "in1": {"z": "0.2 mm"}},
+    "nets": {"G": {"length": "5 mm", "width": "0.5 mm", "layer": "top", "return": {"plane": "in1"}}} })";
+  DesignFiles files{singleDeck("2"), singleParts("6 nC", "6 V", "0.5 nH", "7 V"), layout, R"({"f_sw": "100 kHz"})"};
+  auto run = runPipeline(files);
+  ASSERT_TRUE(run->inputOk) << run->diagnostics();
+  EXPECT_TRUE(run->findings("lead-length").empty());
+}
+
 TEST(LeadLength, ConfiguredMaximumAndMissingLength) {
   auto run = runPipeline(siExample(), {{"lead-length", {{"max", "50 mm"}}}});
   ASSERT_TRUE(run->inputOk) << run->diagnostics();

@@ -11,6 +11,16 @@ namespace {
 bool isBlank(char c) { return c == ' ' || c == '\t' || c == '\r' || c == '\f' || c == '\v'; }
 bool isSeparator(char c) { return isBlank(c) || c == ','; }
 
+/// Characters that end a plain run inside a token: separators, `=`, `;` and group openers. A
+/// table lookup per byte keeps the inner loop to one branch.
+struct StopTable {
+  bool stop[256] = {};
+  constexpr StopTable() {
+    for (unsigned char c : {' ', '\t', '\r', '\f', '\v', ',', '=', ';', '{', '\'', '"'}) stop[c] = true;
+  }
+};
+constexpr StopTable kStops;
+
 char lowerAscii(char c) { return (c >= 'A' && c <= 'Z') ? static_cast<char>(c - 'A' + 'a') : c; }
 
 /// One physical line: [begin, contentEnd) without CR/LF; next = start of the following line.
@@ -82,6 +92,8 @@ TokenizeStatus tokenizeSegments(std::string_view buf, const Segment *segs, std::
     std::size_t start = i;
     std::size_t startSeg = s;
     while (i < segEnd) {
+      while (i < segEnd && !kStops.stop[static_cast<unsigned char>(buf[i])]) ++i;
+      if (i >= segEnd) break;
       c = buf[i];
       if (isSeparator(c) || c == '=' || c == ';') break;
       if (c == '{' || c == '\'' || c == '"') {
@@ -125,7 +137,7 @@ TokenizeStatus tokenizeSegments(std::string_view buf, const Segment *segs, std::
 
 bool SpiceCardScanner::next(SpiceCard &card) {
   while (pos_ < text_.size()) {
-    Line l = lineAt(text_, pos_);
+    Line l = peekAt_ == pos_ ? Line{pos_, peekContentEnd_, peekNext_} : lineAt(text_, pos_);
     std::uint32_t lineNo = line_;
     pos_ = l.next;
     ++line_;
@@ -136,6 +148,7 @@ bool SpiceCardScanner::next(SpiceCard &card) {
     card.line = lineNo;
     card.column = static_cast<std::uint32_t>(i - l.begin + 1);
     card.orphanContinuation = text_[i] == '+';
+    card.continued = false;
     if (card.orphanContinuation) return true;
     // Continuations, possibly after comment or blank lines.
     std::size_t p = pos_;
@@ -148,8 +161,14 @@ bool SpiceCardScanner::next(SpiceCard &card) {
         ++ln;
         continue;
       }
-      if (text_[j] != '+') break;
+      if (text_[j] != '+') {
+        peekAt_ = p;
+        peekContentEnd_ = c.contentEnd;
+        peekNext_ = c.next;
+        break;
+      }
       card.end = static_cast<std::uint32_t>(c.contentEnd);
+      card.continued = true;
       p = c.next;
       ++ln;
       pos_ = p;
@@ -178,9 +197,8 @@ bool tokenizeSpiceCard(std::string_view text, const SpiceCard &card, std::vector
                        std::deque<std::string> &arena, SpiceTokenError &error) {
   out.clear();
   // Fast path: one physical line.
-  const void *nl = std::memchr(text.data() + card.begin, '\n', card.end - card.begin);
   Segment first{card.begin, card.end, card.line, card.column};
-  if (!nl) {
+  if (!card.continued) {
     return tokenizeSegments(text, &first, 1, false, out, error) == TokenizeStatus::Ok;
   }
   // Several physical lines: collect the card's own lines and the continuations.

@@ -21,6 +21,8 @@ struct SpiceCard {
   std::uint32_t column = 0; ///< 1-based column of `begin`
   /// A `+` line with no card before it in this file (the caller reports it).
   bool orphanContinuation = false;
+  /// The card has `+` continuation lines (end lies on a later line than begin).
+  bool continued = false;
 };
 
 /// Walks the lines of one file's text and yields cards.
@@ -44,6 +46,10 @@ private:
   std::string_view text_;
   std::size_t pos_;
   std::uint32_t line_;
+  // The line looked at (and not taken) when checking for continuations; the next call starts
+  // there, so it is not searched for its end twice.
+  std::size_t peekAt_ = static_cast<std::size_t>(-1);
+  std::size_t peekContentEnd_ = 0, peekNext_ = 0;
 };
 
 /// A token of a card with the position of its first character.

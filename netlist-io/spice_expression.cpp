@@ -45,8 +45,10 @@ private:
 
 class Evaluator {
 public:
-  Evaluator(std::string_view text, const SpiceExpressionScope &scope, int callDepth)
-      : text_(text), scope_(scope), callDepth_(callDepth) {}
+  /// \p depth is the nesting already used by the callers (a user function's body continues the
+  /// count of the expression that calls it), so the stack stays bounded across calls.
+  Evaluator(std::string_view text, const SpiceExpressionScope &scope, int callDepth, int depth)
+      : text_(text), scope_(scope), callDepth_(callDepth), depth_(depth) {}
 
   SpiceExpressionResult run() {
     skipSpace();
@@ -383,7 +385,7 @@ private:
       return 0.0;
     }
     ArgumentScope inner(fn, a, scope_);
-    Evaluator body(fn.body, inner, callDepth_ + 1);
+    Evaluator body(fn.body, inner, callDepth_ + 1, depth_);
     SpiceExpressionResult r = body.run();
     if (!r.ok) {
       alreadyReported_ = r.alreadyReported;
@@ -408,7 +410,7 @@ private:
 
 SpiceExpressionResult evaluateSpiceExpression(std::string_view text,
                                               const SpiceExpressionScope &scope) {
-  return Evaluator(text, scope, 0).run();
+  return Evaluator(text, scope, 0, 0).run();
 }
 
 bool spiceExpressionBody(std::string_view token, std::string_view &body) {

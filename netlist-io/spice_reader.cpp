@@ -2,9 +2,10 @@
 /// SPICE deck reader. Two passes:
 ///  1. Read every file once into memory (includes, .lib sections), split it into cards and run the
 ///     dot cards (.subckt nesting, .param, .model, .global, .func). Element cards are only
-///     remembered as (file, offset, line) so that models and subcircuits defined further down are
-///     known before any element is interpreted (a Q card's fourth word is a substrate node or a
-///     model, depending on the .model cards).
+///     remembered (top-level ones as runs of consecutive cards: file, offset, line, count), so
+///     that models and subcircuits defined further down are known before any element is
+///     interpreted (a Q card's fourth word is a substrate node or a model, depending on the
+///     .model cards).
 ///  2. Parse every subcircuit body once into records, count each definition's flattened size
 ///     bottom-up (so a subcircuit "bomb" is refused without being expanded), then walk the
 ///     top-level cards in deck order and emit components, expanding X instances depth-first.
@@ -39,6 +40,7 @@ namespace fs = std::filesystem;
 constexpr std::size_t kMaxErrors = 100;
 constexpr std::size_t kMaxNotes = 500;
 constexpr unsigned kMaxSubcircuitNesting = 1000;
+constexpr int kMaxParameterChain = 200;
 constexpr std::uint64_t kCountCap = std::uint64_t{1} << 62;
 constexpr std::size_t kMaxFileSize = std::numeric_limits<std::uint32_t>::max() - 1;
 const double kNaN = std::numeric_limits<double>::quiet_NaN();
@@ -56,16 +58,27 @@ bool isIdentifier(std::string_view s) {
 }
 
 struct CiHash {
+  /// Eight bytes at a time; OR-ing 0x20 into every byte folds ASCII upper case onto lower case
+  /// (and merges a few punctuation pairs, harmless for a hash), so names equal ignoring case hash
+  /// equal.
   std::size_t operator()(std::string_view s) const noexcept {
-    std::uint64_t h = 1469598103934665603ull;
-    for (char c : s) {
-      h ^= static_cast<unsigned char>(lowerAscii(c));
-      h *= 1099511628211ull;
+    constexpr std::uint64_t kFold = 0x2020202020202020ull;
+    constexpr std::uint64_t kMul = 0xff51afd7ed558ccdull;
+    std::uint64_t h = 0x9E3779B97F4A7C15ull ^ s.size();
+    std::size_t i = 0;
+    for (; i + 8 <= s.size(); i += 8) {
+      std::uint64_t w;
+      std::memcpy(&w, s.data() + i, 8);
+      h = (h ^ (w | kFold)) * kMul;
+      h ^= h >> 32;
     }
-    // FNV's low bits mix poorly; the open-addressing table masks low bits, so finish with a
-    // multiply-shift mix.
+    if (i < s.size()) {
+      std::uint64_t w = 0;
+      std::memcpy(&w, s.data() + i, s.size() - i);
+      h = (h ^ (w | kFold)) * kMul;
+    }
     h ^= h >> 33;
-    h *= 0xff51afd7ed558ccdull;
+    h *= kMul;
     h ^= h >> 33;
     return static_cast<std::size_t>(h);
   }
@@ -256,6 +269,8 @@ struct Def {
   std::vector<ParamPair> pairs;
   std::uint64_t count = 0;
   std::uint8_t state = 0; ///< 0 = not counted, 1 = counting, 2 = done
+  std::uint32_t depth = 0; ///< levels of instances one instance of this definition makes
+  bool tooDeep = false;
   bool parsed = false;
   std::uint32_t pinNamesId = 0;
   StringId nameId = 0;
@@ -329,7 +344,6 @@ struct Instance {
   std::vector<NetId> portNets;
   const ParamEnv *env = nullptr;
   ComponentId component = kNone;
-  const Def *def = nullptr;
 };
 
 /// Small direct-mapped cache of recently used top-level nets. Consecutive cards mostly name nets
@@ -404,8 +418,8 @@ private:
   void processFile(std::uint32_t fi, std::size_t offset, std::uint32_t line,
                    std::string_view section, bool *sectionFound);
   bool tokenize(const SourceFile &f, const SpiceCard &card);
-  void dotCard(std::uint32_t fi, const SpiceCard &card, SpiceCardScanner &scanner,
-               std::size_t defDepthAtStart, bool &stopFile);
+  void dotCard(std::uint32_t fi, SpiceCardScanner &scanner, std::size_t defDepthAtStart,
+               bool &stopFile);
   void includeFile(std::uint32_t fi, const SpiceToken &pathToken, std::string_view section,
                    const SpiceToken *sectionToken);
   void subcktCard(std::uint32_t fi);
@@ -480,6 +494,7 @@ private:
   std::uint64_t emitted_ = 0;
   bool capReported_ = false;
 
+  int paramDepth_ = 0; ///< parameters being evaluated inside one another
   std::size_t errors_ = 0;
   std::size_t notes_ = 0;
   bool stop_ = false;
@@ -495,10 +510,21 @@ SpiceLookup ParamEnv::parameter(std::string_view name, double &value) const {
       return SpiceLookup::Failed;
     case State::Pending: break;
     }
+    // Parameters defined through long chains (a={b}, b={c}, ...) evaluate recursively; bound
+    // the chain so that the stack is too.
+    if (reader_.paramDepth_ >= kMaxParameterChain) {
+      reader_.reportOnce(s->where, "parameter " + std::string(s->name) +
+                                       " is defined through more than " +
+                                       std::to_string(kMaxParameterChain) + " other parameters");
+      s->state = State::Failed;
+      return SpiceLookup::Failed;
+    }
     s->state = State::Evaluating;
     double v = 0.0;
+    ++reader_.paramDepth_;
     bool ok = reader_.evaluate(s->expr, s->exprWhere, *this,
                                ".param " + std::string(s->name), true, v);
+    --reader_.paramDepth_;
     // The slot may have moved if evaluation added slots; look it up again.
     Slot *again = find(name);
     again->state = ok ? State::Done : State::Failed;
@@ -707,7 +733,8 @@ std::size_t SpiceDeckReader::lastEndl(SourceFile &f) {
 // --- Pass 1 -------------------------------------------------------------------------------------------
 
 bool SpiceDeckReader::tokenize(const SourceFile &f, const SpiceCard &card) {
-  if (tokenizeSpiceCard(f.text, card, tokens_, arena_, tokenError_)) return true;
+  // A card of separators and a `$ ` comment only has no tokens: nothing to read.
+  if (tokenizeSpiceCard(f.text, card, tokens_, arena_, tokenError_)) return !tokens_.empty();
   error({f.id, tokenError_.line, tokenError_.column}, tokenError_.message);
   return false;
 }
@@ -792,7 +819,7 @@ void SpiceDeckReader::processFile(std::uint32_t fi, std::size_t offset, std::uin
     }
     if (!inSection) continue;
     bool stopFile = false;
-    dotCard(fi, card, scanner, defDepthAtStart, stopFile);
+    dotCard(fi, scanner, defDepthAtStart, stopFile);
     if (stopFile) break;
   }
   while (defStack_.size() > defDepthAtStart) {
@@ -821,7 +848,7 @@ void SpiceDeckReader::elementCard(std::uint32_t fi, const SpiceCard &card, std::
   runOpen_ = true;
 }
 
-void SpiceDeckReader::dotCard(std::uint32_t fi, const SpiceCard &card, SpiceCardScanner &scanner,
+void SpiceDeckReader::dotCard(std::uint32_t fi, SpiceCardScanner &scanner,
                               std::size_t defDepthAtStart, bool &stopFile) {
   SourceFile &f = *sources_[fi];
   std::string_view kw = tokens_[0].text.substr(1);
@@ -887,7 +914,6 @@ void SpiceDeckReader::dotCard(std::uint32_t fi, const SpiceCard &card, SpiceCard
   std::string key = toLower(kw);
   if (unknownDotCards_.insert(key).second)
     note(at, "unknown dot card ." + std::string(kw) + " skipped (later ones without a note)");
-  (void)card;
 }
 
 /// Text from token \p first to the end of token \p end-1: a view when they share a line, else a
@@ -1101,6 +1127,16 @@ void SpiceDeckReader::modelCard(std::uint32_t fi) {
 }
 
 // --- Pass 2: parsing element cards --------------------------------------------------------------
+
+/// Rebuilds the card remembered as \p cr (column and continuation flag are recomputed).
+SpiceCard cardOf(const SourceFile &f, const CardRef &cr) {
+  SpiceCard card{cr.begin, cr.end, cr.line, 1, false, false};
+  std::size_t ls = cr.begin;
+  while (ls > 0 && f.text[ls - 1] != '\n') --ls;
+  card.column = cr.begin - static_cast<std::uint32_t>(ls) + 1;
+  card.continued = std::memchr(f.text.data() + cr.begin, '\n', cr.end - cr.begin) != nullptr;
+  return card;
+}
 
 Def *SpiceDeckReader::findDef(std::string_view name, const Def *scope) const {
   for (const Def *s = scope; s; s = s->parent)
@@ -1512,10 +1548,7 @@ void SpiceDeckReader::parseDef(Def &d) {
   for (const CardRef &cr : d.cards) {
     if (stop_) return;
     const SourceFile &f = *sources_[cr.file];
-    SpiceCard card{cr.begin, cr.end, cr.line, 1, false};
-    std::size_t ls = cr.begin;
-    while (ls > 0 && f.text[ls - 1] != '\n') --ls;
-    card.column = cr.begin - static_cast<std::uint32_t>(ls) + 1;
+    SpiceCard card = cardOf(f, cr);
     if (!tokenize(f, card)) continue;
     Rec rec;
     std::size_t nodesBefore = d.nodes.size(), pairsBefore = d.pairs.size();
@@ -1537,13 +1570,20 @@ void SpiceDeckReader::parseDef(Def &d) {
   }
 }
 
+/// Counts the elements one instance of \p d flattens into and how deeply it nests instances,
+/// from the definitions alone. Too deep a nesting would make the depth-first expansion run out
+/// of stack, so such definitions are refused (and everything that instantiates them is not
+/// expanded either).
 void SpiceDeckReader::countDef(Def &d, unsigned depth) {
   if (d.state == 2) return;
+  auto tooDeep = [&] {
+    error(d.where, "subcircuit " + std::string(d.name) + " nests subcircuits more than " +
+                       std::to_string(kMaxSubcircuitNesting) + " levels deep");
+    d.tooDeep = true;
+  };
   if (depth > kMaxSubcircuitNesting) {
-    error(d.where, "subcircuits nested more than " + std::to_string(kMaxSubcircuitNesting) +
-                       " levels deep");
+    tooDeep();
     d.state = 2;
-    d.count = 0;
     return;
   }
   d.state = 1;
@@ -1565,9 +1605,17 @@ void SpiceDeckReader::countDef(Def &d, unsigned depth) {
     }
     countDef(t, depth + 1);
     if (stop_) break;
+    if (t.tooDeep) {
+      d.tooDeep = true; // reported where the limit was crossed
+      r.noExpand = true;
+      continue;
+    }
+    d.depth = std::max(d.depth, t.depth);
     total = std::min(kCountCap, total + t.count);
   }
   d.count = total;
+  d.depth += 1;
+  if (d.depth > kMaxSubcircuitNesting && !d.tooDeep) tooDeep();
   d.state = 2;
   counting_.pop_back();
 }
@@ -1658,7 +1706,9 @@ void SpiceDeckReader::emit(const Rec &rec, const NodeRef *nodes, const ParamPair
   if (stop_) return;
   const bool top = inst.prefix.empty();
   std::uint64_t need = 1;
-  if (rec.kind == ElementKind::Subcircuit && rec.target && !rec.noExpand) need += rec.target->count;
+  const bool expands =
+      rec.kind == ElementKind::Subcircuit && rec.target && !rec.noExpand && !rec.target->tooDeep;
+  if (expands) need += rec.target->count;
   if (emitted_ + need > options_.maxElements) {
     // Counts are exact, so this triggers at top level before anything of an instance is built.
     if (need > 1) {
@@ -1717,7 +1767,7 @@ void SpiceDeckReader::emit(const Rec &rec, const NodeRef *nodes, const ParamPair
   ComponentId id = circuit_.addComponent(std::move(c), netScratch_, pinNamesId);
   ++emitted_;
   if (top) ++topComponents_;
-  if (rec.kind == ElementKind::Subcircuit && rec.target && !rec.noExpand)
+  if (expands)
     expand(rec, pairs, inst, id, std::vector<NetId>(netScratch_.begin(), netScratch_.end()));
 }
 
@@ -1739,7 +1789,8 @@ void SpiceDeckReader::expand(const Rec &rec, const ParamPair *pairs, const Insta
       note(p.where, std::string(rec.name) + " sets parameter " + std::string(p.name) +
                         ", which subcircuit " + std::string(d.name) + " does not declare");
   }
-  for (const ParamDef &pd : d.params) env.addIfAbsent(pd);
+  // Reverse order: of two body .param cards with one name, the later one counts.
+  for (auto it = d.params.rbegin(); it != d.params.rend(); ++it) env.addIfAbsent(*it);
   for (const ParamDef &pd : d.defaults) env.addIfAbsent(pd);
   Instance child;
   child.prefix.reserve(inst.prefix.size() + 1 + rec.name.size());
@@ -1748,7 +1799,6 @@ void SpiceDeckReader::expand(const Rec &rec, const ParamPair *pairs, const Insta
   child.portNets = std::move(portNets);
   child.env = &env;
   child.component = xId;
-  child.def = &d;
   for (const Rec &r : d.recs) {
     if (stop_) return;
     emit(r, d.nodes.data(), d.pairs.data(), child);
@@ -1771,7 +1821,7 @@ void SpiceDeckReader::build() {
   std::uint64_t estimate = topCardCount_;
   for (const CardRef &cr : topXCards_) {
     const SourceFile &f = *sources_[cr.file];
-    SpiceCard card{cr.begin, cr.end, cr.line, 1, false};
+    SpiceCard card = cardOf(f, cr);
     std::vector<SpiceToken> toks;
     SpiceTokenError err;
     if (!tokenizeSpiceCard(f.text, card, toks, arena_, err)) continue;
@@ -1804,6 +1854,12 @@ void SpiceDeckReader::build() {
       if (rec.kind == ElementKind::Subcircuit) resolveInstance(rec, rec.nodeCount, nullptr);
       emit(rec, nodes.data(), pairs.data(), top);
     }
+  }
+  // Everything read from the files has been copied into the circuit: give the text back before
+  // the duplicate check allocates its keys (this lowers the peak memory of big decks).
+  for (auto &src : sources_) {
+    std::string().swap(src->owned);
+    src->text = {};
   }
   if (!stop_) reportDuplicateNames(firstTopComponent);
 }

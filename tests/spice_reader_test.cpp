@@ -248,7 +248,7 @@ TEST(SpiceReader, IgnoredAndUnknownDotCards) {
   auto notes = p->notes();
   ASSERT_EQ(notes.size(), 1u) << joined(notes);
   EXPECT_EQ(notes[0],
-            "deck.cir:28:1: note: unknown dot card .frobnicate skipped (later ones without a note)");
+            "deck.cir:27:1: note: unknown dot card .frobnicate skipped (later ones without a note)");
 }
 
 // --- Values -------------------------------------------------------------------------------------------
@@ -307,6 +307,7 @@ TEST(SpiceReader, SubcircuitParametersAndExpressions) {
   auto p = parseText("params\n"
                      ".param vdrv=15 rbase=2\n"
                      ".func par(a, b) = {a*b/(a+b)}\n"
+                     ".param twice(x) = 2*x\n"
                      ".subckt stage in out params: ron=10 roff={ron/2}\n"
                      ".param rsum={ron+roff}\n"
                      "R1 in mid {ron}\n"
@@ -314,6 +315,8 @@ TEST(SpiceReader, SubcircuitParametersAndExpressions) {
                      "R3 in out {rsum}\n"
                      "R4 in out {par(ron, roff)}\n"
                      "R5 in out {rbase*vdrv}\n" // refers to deck parameters
+                     ".param rsum=99 rsum={ron+roff}\n" // the later one counts
+                     "R6 in out {twice(rsum)}\n"
                      ".ends stage\n"
                      "X1 a b stage\n"
                      "X2 a b stage ron=4\n"
@@ -324,11 +327,38 @@ TEST(SpiceReader, SubcircuitParametersAndExpressions) {
   EXPECT_DOUBLE_EQ(p->comp("X1.R3").value, 15.0);
   EXPECT_DOUBLE_EQ(p->comp("X1.R4").value, 50.0 / 15.0);
   EXPECT_DOUBLE_EQ(p->comp("X1.R5").value, 30.0);
+  EXPECT_DOUBLE_EQ(p->comp("X1.R6").value, 30.0);
   EXPECT_DOUBLE_EQ(p->comp("X2.R1").value, 4.0); // instance overrides the default
   EXPECT_DOUBLE_EQ(p->comp("X2.R2").value, 2.0); // default evaluated with the override
   EXPECT_DOUBLE_EQ(p->comp("X3.R1").value, 6.0); // instance value from a deck parameter
   EXPECT_DOUBLE_EQ(p->comp("X3.R2").value, 1.0);
   EXPECT_DOUBLE_EQ(p->comp("X3.R3").value, 7.0);
+}
+
+TEST(SpiceReader, ParameterPrecedence) {
+  // Decision (docs/spice-reader.md): instance value > .param in the body > .subckt default.
+  auto p = parseText("precedence\n"
+                     ".subckt s a params: r=1 q=7\n"
+                     ".param r=5\n"
+                     "R1 a 0 {r}\n"
+                     "R2 a 0 {q}\n"
+                     ".ends\n"
+                     "X1 n s r=2\n"
+                     "X2 n s\n");
+  ASSERT_TRUE(p->ok) << joined(p->errors());
+  EXPECT_DOUBLE_EQ(p->comp("X1.R1").value, 2.0);
+  EXPECT_DOUBLE_EQ(p->comp("X2.R1").value, 5.0);
+  EXPECT_DOUBLE_EQ(p->comp("X2.R2").value, 7.0);
+}
+
+TEST(SpiceReader, IncludeInsideASubcircuitBody) {
+  TempTree t;
+  t.write("top.cir", "top\n.subckt cell a b\n.include body.inc\n.ends\nX1 n1 n2 cell\n");
+  t.write("body.inc", "R1 a m 1\nR2 m b 2\n");
+  auto p = t.read("top.cir");
+  ASSERT_TRUE(p->ok) << joined(p->errors());
+  EXPECT_EQ(p->pinNet("X1.R1", "2"), "X1.m");
+  EXPECT_EQ(p->files.name(p->comp("X1.R2").where.file), "body.inc");
 }
 
 TEST(SpiceReader, NestedParametersSeeTheirParent) {
@@ -418,8 +448,10 @@ TEST(SpiceReader, IncludesRelativeToTheIncludingFile) {
 
 TEST(SpiceReader, LibSections) {
   TempTree t;
-  t.write("top.cir", "top\n.lib models/corners.lib typ\n.lib fast\nXM1 d g s sw\n"
-                     ".lib fast\nRfast a 0 1\n.endl fast\n");
+  t.write("top.cir", "top\n.lib models/corners.lib typ\nXM1 d g s sw\n"
+                     ".lib fast\nRfast a 0 1\n.endl fast\n"
+                     ".lib slowest\nRslowest a 0 1\n.endl slowest\n"
+                     ".lib top.cir slowest\n");
   t.write("models/corners.lib", "* corner library\n"
                                 ".lib slow\n.subckt sw d g s\nRg g x 9\n.ends\n.endl slow\n"
                                 ".lib typ\n.lib 'corners.lib' common\n.subckt sw d g s\nRg g x 4\n.ends\n.endl typ\n"
@@ -427,8 +459,10 @@ TEST(SpiceReader, LibSections) {
   auto p = t.read("top.cir");
   ASSERT_TRUE(p->ok) << joined(p->errors());
   EXPECT_DOUBLE_EQ(p->comp("XM1.Rg").value, 4.0); // from section typ, not slow
-  // `.lib fast` in the deck itself opens a section: not read unless asked for.
+  // `.lib fast` in the deck itself opens a section: not read unless asked for...
   EXPECT_EQ(p->circuit.findComponent("Rfast"), kNone);
+  // ...as the last card does for section slowest of the same file.
+  EXPECT_NE(p->circuit.findComponent("Rslowest"), kNone);
 }
 
 TEST(SpiceReader, LibSectionNotFound) {
@@ -549,8 +583,59 @@ TEST(SpiceReaderLimits, SubcircuitRecursion) {
                 "deck.cir:9:1: error: subcircuit recursion: a -> b -> c -> a (XA instantiates a)"});
 }
 
+TEST(SpiceReaderLimits, NestingDepth) {
+  // 1100 levels, each instantiating the one below once: the depth-first expansion would need a
+  // deep stack, so nesting beyond 1000 levels is refused, in either definition order.
+  std::string up = "deep\n.subckt l0 a\nR1 a 0 1\n.ends\n";
+  for (int i = 1; i < 1100; ++i)
+    up += ".subckt l" + std::to_string(i) + " a\nX1 a l" + std::to_string(i - 1) + "\n.ends\n";
+  up += "Xtop n l1099\n";
+  auto p = parseText(up);
+  EXPECT_FALSE(p->ok);
+  EXPECT_EQ(p->errors(), std::vector<std::string>{"deck.cir:3002:9: error: subcircuit l1000 nests "
+                                                  "subcircuits more than 1000 levels deep"});
+  EXPECT_EQ(p->circuit.components().size(), 1u); // Xtop only, not expanded
+
+  std::string down = "deep\n";
+  for (int i = 1099; i >= 1; --i)
+    down += ".subckt l" + std::to_string(i) + " a\nX1 a l" + std::to_string(i - 1) + "\n.ends\n";
+  down += ".subckt l0 a\nR1 a 0 1\n.ends\nXtop n l1099\n";
+  auto q = parseText(down);
+  EXPECT_FALSE(q->ok);
+  ASSERT_EQ(q->errors().size(), 1u) << joined(q->errors());
+  EXPECT_NE(q->errors()[0].find("nests subcircuits more than 1000 levels deep"), std::string::npos);
+
+  // 990 levels are fine.
+  std::string fine = "deep\n.subckt l0 a\nR1 a 0 1\n.ends\n";
+  for (int i = 1; i < 990; ++i)
+    fine += ".subckt l" + std::to_string(i) + " a\nX1 a l" + std::to_string(i - 1) + "\n.ends\n";
+  fine += "Xtop n l989\n";
+  auto r = parseText(fine);
+  EXPECT_TRUE(r->ok) << joined(r->errors());
+  EXPECT_EQ(r->circuit.components().size(), 991u);
+}
+
+TEST(SpiceReaderLimits, LongParameterChains) {
+  auto chain = [](int n) {
+    std::string d = "chain\n";
+    for (int i = 0; i < n; ++i)
+      d += ".param a" + std::to_string(i) + "={a" + std::to_string(i + 1) + "+1}\n";
+    d += ".param a" + std::to_string(n) + "=0\nR1 x 0 {a0}\n";
+    return d;
+  };
+  auto ok = parseText(chain(150));
+  ASSERT_TRUE(ok->ok) << joined(ok->errors());
+  EXPECT_DOUBLE_EQ(ok->comp("R1").value, 150.0);
+  auto deep = parseText(chain(20000)); // would exhaust the stack if followed to the end
+  EXPECT_FALSE(deep->ok);
+  ASSERT_EQ(deep->errors().size(), 1u) << joined(deep->errors());
+  EXPECT_EQ(deep->errors()[0], "deck.cir:202:8: error: parameter a200 is defined through more "
+                               "than 200 other parameters");
+}
+
 TEST(SpiceReaderLimits, SubcircuitBombIsRefusedWithoutExpanding) {
-  // 9 levels, each instantiating the next 10 times: 10^9 resistors if expanded.
+  // 9 levels above a one-resistor cell, each instantiating the level below 10 times: about 2e9
+  // elements if expanded (10^9 resistors plus the instances).
   std::string deck = "bomb\n.subckt l0 a\nR1 a 0 1\n.ends\n";
   for (int i = 1; i <= 9; ++i) {
     deck += ".subckt l" + std::to_string(i) + " a\n";
@@ -566,7 +651,7 @@ TEST(SpiceReaderLimits, SubcircuitBombIsRefusedWithoutExpanding) {
   EXPECT_LT(seconds, 0.5);
   EXPECT_FALSE(p->ok);
   EXPECT_EQ(p->errors(), std::vector<std::string>{
-                             "deck.cir:105:1: error: Xtop would add 1111111111 elements (subcircuit "
+                             "deck.cir:113:1: error: Xtop would add 2111111111 elements (subcircuit "
                              "l9 flattened), over the limit of 5000000 elements"});
   EXPECT_EQ(p->circuit.components().size(), 0u);
   // A smaller limit applies to plain elements as well.
@@ -618,7 +703,7 @@ INSTANTIATE_TEST_SUITE_P(
         BadDeck{"DivisionByZero", "t\n.param a=1 b=1\nR1 x y {1/(a-b)}\n",
                 "deck.cir:3:10: error: division by zero in value of R1 = {1/(a-b)}"},
         BadDeck{"ParamDivisionByZero", "t\n.param z = {1/0}\nR1 x y {z}\n",
-                "deck.cir:2:13: error: division by zero in .param z = {1/0}"},
+                "deck.cir:2:14: error: division by zero in .param z = {1/0}"},
         BadDeck{"ParamCycle", "t\n.param a={b+1} b={a*2}\nR1 x y {a}\n",
                 "deck.cir:2:8: error: parameter a depends on itself"},
         BadDeck{"EndsWithoutSubckt", "t\nR1 a b 1\n.ends\n",

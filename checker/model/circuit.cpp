@@ -139,7 +139,7 @@ ComponentId Circuit::findComponent(std::string_view name) const {
 
 void Circuit::reserve(std::size_t components, std::size_t nets) {
   components_.reserve(components);
-  pinNets_.reserve(components * 2);
+  pinNets_.reserve(components * 3); // decks average about three pins per element
   nets_.reserve(nets);
   netIndex_.reserve(nets);
 }

@@ -55,14 +55,6 @@ std::string plural(std::size_t n, const char *word) { return fmt::format("{} {}{
 
 bool active(const Finding &f) { return !f.baseline && !f.waived; }
 
-// Worst use of any external resistor's rating, power or pulse, "-" without rating data.
-std::string worstUse(const LoopAnalysis &a) {
-  auto power = worstPowerUse(a), pulse = worstPulseUse(a);
-  if (!power && !pulse) return "-";
-  bool pulseWorse = pulse && (!power || *pulse > *power);
-  return fmt::format("{:.0f}% {}", (pulseWorse ? *pulse : *power) * 100, pulseWorse ? "pulse" : "power");
-}
-
 std::string verdict(const DesignReport &d, const std::string &loopId) {
   auto worst = worstActiveSeverity(d, loopId);
   return worst ? severityName(*worst) : "ok";
@@ -98,7 +90,7 @@ void writeLoopTable(const DesignReport &d, std::ostream &out) {
     num(opt(a.off.iPeak, "A"));
     num(opt(a.on.vPeak, "V"));
     num(opt(a.off.vPeak, "V"));
-    num(worstUse(a));
+    num(worstResistorUseText(a));
     out << "<td class=\"" << v << "\">" << v << "</td></tr>\n";
   }
   out << "</tbody>\n</table>\n";

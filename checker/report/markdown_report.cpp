@@ -41,14 +41,6 @@ std::string plural(std::size_t n, const char *word) {
 
 bool active(const Finding &f) { return !f.baseline && !f.waived; }
 
-// Worst use of any external resistor's rating, power or pulse, "-" without rating data.
-std::string worstUse(const LoopAnalysis &a) {
-  auto power = worstPowerUse(a), pulse = worstPulseUse(a);
-  if (!power && !pulse) return "-";
-  bool pulseWorse = pulse && (!power || *pulse > *power);
-  return fmt::format("{:.0f}% {}", (pulseWorse ? *pulse : *power) * 100, pulseWorse ? "pulse" : "power");
-}
-
 std::string verdict(const DesignReport &d, const std::string &loopId) {
   auto worst = worstActiveSeverity(d, loopId);
   if (!worst) return "ok";
@@ -84,7 +76,7 @@ void writeLoopTable(const DesignReport &d, std::ostream &out) {
     std::string drv = driverName(d, loop);
     out << "| " << md(loop.id) << " | " << (drv.empty() ? "-" : md(drv)) << " | " << opt(a.on.rExternal, "ohm")
         << " | " << opt(a.off.rExternal, "ohm") << " | " << optNum(a.on.zeta) << " | " << optNum(a.off.zeta) << " | "
-        << opt(a.on.iPeak, "A") << " | " << opt(a.off.iPeak, "A") << " | " << worstUse(a) << " | "
+        << opt(a.on.iPeak, "A") << " | " << opt(a.off.iPeak, "A") << " | " << worstResistorUseText(a) << " | "
         << verdict(d, loop.id) << " |\n";
   }
   out << '\n';

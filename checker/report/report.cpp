@@ -1,6 +1,7 @@
 #include "checker/report/report.h"
 
 #include <algorithm>
+#include <cmath>
 #include <tuple>
 
 namespace gateloop {
@@ -82,6 +83,14 @@ std::optional<double> worstPulseUse(const LoopAnalysis &a) {
     if (!l.pulseLimit || l.pulseLimit->si() <= 0) return std::nullopt;
     return l.peakPower / *l.pulseLimit;
   });
+}
+
+std::string worstResistorUseText(const LoopAnalysis &a) {
+  auto power = worstPowerUse(a), pulse = worstPulseUse(a);
+  if (!power && !pulse) return "-";
+  bool pulseWorse = pulse && (!power || *pulse > *power);
+  return std::to_string(static_cast<long>(std::lround((pulseWorse ? *pulse : *power) * 100))) + "% " +
+         (pulseWorse ? "pulse" : "power");
 }
 
 std::optional<Severity> worstActiveSeverity(const DesignReport &d, const std::string &loopId) {

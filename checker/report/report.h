@@ -61,6 +61,9 @@ std::string locationText(const SourceLocation &loc, const FileTable &files);
 std::optional<double> worstPowerUse(const LoopAnalysis &a);
 std::optional<double> worstPulseUse(const LoopAnalysis &a);
 
+/// The worse of the two as text for tables: "45% pulse", "24% power", or "-" without data.
+std::string worstResistorUseText(const LoopAnalysis &a);
+
 /// The worst severity among a loop's findings that are neither accepted nor waived.
 std::optional<Severity> worstActiveSeverity(const DesignReport &d, const std::string &loopId);
 

@@ -109,6 +109,7 @@ int runCli(int argc, char **argv) {
 
   CommonOptions checkOpts, loopsOpts, auditOpts;
   std::string explainId, initNetlist;
+  std::vector<std::string> initParts;
   bool initForce = false;
   AuditOptions audit;
 
@@ -127,7 +128,7 @@ int runCli(int argc, char **argv) {
 
   auto *init = app.add_subcommand("init", "write a starter project file and a layout-sidecar template");
   init->add_option("netlist", initNetlist, "SPICE deck or XML netlist")->required();
-  init->add_option("--parts", audit.initParts, "parts library to resolve switches and drivers (repeatable)");
+  init->add_option("--parts", initParts, "parts library to resolve switches and drivers (repeatable)");
   init->add_flag("--force", initForce, "overwrite existing files");
 
   auto *auditCmd = app.add_subcommand("audit", "check every project below the folders and summarise");
@@ -155,7 +156,7 @@ int runCli(int argc, char **argv) {
   if (loops->parsed()) return runLoopsCommand(loopsOpts);
   if (app.got_subcommand("rules")) return runRulesCommand();
   if (explain->parsed()) return runExplainCommand(explainId);
-  if (init->parsed()) return runInitCommand(initNetlist, audit.initParts, initForce);
+  if (init->parsed()) return runInitCommand(initNetlist, initParts, initForce);
   if (auditCmd->parsed()) return runAuditCommand(audit);
   return kExitInputError;
 }

@@ -32,7 +32,6 @@ struct AuditOptions {
   std::string summaryCsv, summaryJson;
   std::string failOn = "error";
   bool quiet = false;
-  std::vector<std::string> initParts;   ///< --parts of `init`
 };
 
 int runCheckCommand(const CommonOptions &o);

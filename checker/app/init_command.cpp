@@ -4,6 +4,7 @@
 /// filling in numbers instead of learning two file formats.
 
 #include "checker/app/commands.h"
+#include "checker/app/run_inputs.h"
 
 #include "checker/app/output_file.h"
 #include "checker/loops/gate_loop.h"
@@ -32,11 +33,6 @@ constexpr const char *kProjectFileName = "gateloop.json";
 
 using OrderedJson = nlohmann::ordered_json;
 
-bool isXmlPath(const std::string &path) {
-  std::string ext = fs::path(path).extension().string();
-  for (char &c : ext) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-  return ext == ".xml";
-}
 
 /// \p path as written in a file that lives in the current directory: relative where possible,
 /// with forward slashes so the project file reads the same on every system.
@@ -176,14 +172,7 @@ int runInitCommand(const std::string &netlist, const std::vector<std::string> &p
   FileTable files;
   InputDiagnostics diags;
   Circuit circuit;
-  if (isXmlPath(netlist)) {
-    readXmlNetlist(netlist, files, circuit, diags);
-  } else {
-    SpiceReadOptions opts;
-    std::error_code ec;
-    opts.projectRoot = fs::weakly_canonical(fs::absolute(netlist, ec).parent_path(), ec).string();
-    readSpiceDeck(netlist, opts, files, circuit, diags);
-  }
+  readNetlist(netlist, absoluteFolderOf(netlist), InputSelection{}, files, circuit, diags);
   PartLibrary lib;
   for (const auto &p : parts) readPartsLibrary(p, files, lib, diags);
   // Without libraries every XML `part` attribute would be an unknown id; resolving is only

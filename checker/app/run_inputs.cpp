@@ -19,29 +19,34 @@ bool looksLikeXml(const std::string &path) {
   return ext == ".xml";
 }
 
+} // namespace
+
 std::string absoluteFolderOf(const std::string &file) {
   std::error_code ec;
   fs::path p = fs::absolute(fs::path(file), ec).parent_path();
   return fs::weakly_canonical(p, ec).string();
 }
 
-} // namespace
+FileId readNetlist(const std::string &path, const std::string &projectRoot, const InputSelection &sel,
+                   FileTable &files, Circuit &circuit, InputDiagnostics &diags) {
+  std::size_t before = files.size();
+  if (looksLikeXml(path)) {
+    readXmlNetlist(path, files, circuit, diags);
+  } else {
+    SpiceReadOptions opts;
+    opts.projectRoot = projectRoot;
+    opts.allowOutsideRoot = sel.allowOutsideRoot;
+    opts.maxElements = sel.maxElements;
+    readSpiceDeck(path, opts, files, circuit, diags);
+  }
+  return files.size() > before ? static_cast<FileId>(before) : 0;
+}
 
 void loadDesign(const DesignSpec &spec, const Project &project, const InputSelection &sel, RunInputs &run) {
   auto design = std::make_unique<LoadedDesign>();
   design->spec = spec;
 
-  std::size_t before = run.files.size();
-  if (looksLikeXml(spec.netlistPath)) {
-    readXmlNetlist(spec.netlistPath, run.files, design->circuit, run.diags);
-  } else {
-    SpiceReadOptions opts;
-    opts.projectRoot = project.rootDir;
-    opts.allowOutsideRoot = sel.allowOutsideRoot;
-    opts.maxElements = sel.maxElements;
-    readSpiceDeck(spec.netlistPath, opts, run.files, design->circuit, run.diags);
-  }
-  if (run.files.size() > before) design->netlistFile = static_cast<FileId>(before);
+  design->netlistFile = readNetlist(spec.netlistPath, project.rootDir, sel, run.files, design->circuit, run.diags);
 
   std::vector<std::string> libs = project.partsPaths;
   libs.insert(libs.end(), spec.partsPaths.begin(), spec.partsPaths.end());

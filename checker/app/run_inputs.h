@@ -45,6 +45,15 @@ struct RunInputs {
   std::string projectDisplayPath;        ///< empty when the design came from --netlist
 };
 
+/// Reads one netlist into \p circuit: the XML reader for `.xml` files, the SPICE reader for
+/// everything else, with includes kept below \p projectRoot unless \p sel allows otherwise.
+/// Returns the file id of the netlist (0 when it could not be registered).
+FileId readNetlist(const std::string &path, const std::string &projectRoot, const InputSelection &sel,
+                   FileTable &files, Circuit &circuit, InputDiagnostics &diags);
+
+/// The folder of \p file as an absolute, normalised path.
+std::string absoluteFolderOf(const std::string &file);
+
 /// Reads everything \p sel names into \p run. Returns false when any input error was found
 /// (the diagnostics say which); notes and warnings do not fail.
 bool loadRunInputs(const InputSelection &sel, RunInputs &run);

@@ -75,8 +75,6 @@ std::string leg(const std::string &ron = "4.7", const std::string &roff = "2.2")
 const char *const kOperating = R"({"v_bus": "800 V", "i_load": "150 A", "f_sw": "16 kHz", "t_ambient": "55 degC",
   "l_power_loop": "25 nH"})";
 
-std::string partsWithAssign() { return kParts; }
-
 const LoopAnalysis &loopNamed(const HarnessRun &run, const std::string &id) {
   const auto &d = run.design();
   for (std::size_t i = 0; i < d.loops.size(); ++i)

@@ -19,11 +19,6 @@ using namespace gateloop::testing;
 
 namespace {
 
-struct Result {
-  int status = -1;
-  std::string out;
-};
-
 class BaselineWaiver : public ::testing::Test {
 protected:
   void SetUp() override {
@@ -39,9 +34,10 @@ protected:
   }
   void TearDown() override { fs::remove_all(root_); }
 
-  Result run(const std::string &args, const fs::path &cwd, const std::string &today = "2026-12-01") {
+  // Standard output and error together: messages go to either, and the tests read both.
+  RunResult run(const std::string &args, const fs::path &cwd, const std::string &today = "2026-12-01") {
     RunResult r = runGateloop(cwd, args, "GATELOOP_TODAY=" + today);
-    return {r.status, r.all()};
+    return {r.status, r.all(), ""};
   }
 
   // Seeds a fault: the low-side turn-off resistor drops below the recommended 1 ohm.
@@ -64,7 +60,7 @@ protected:
 
 TEST_F(BaselineWaiver, ProjectFileIsFoundByWalkingUp) {
   fs::create_directories(project_ / "hw" / "deep");
-  Result r = run("check", project_ / "hw" / "deep");
+  RunResult r = run("check", project_ / "hw" / "deep");
   EXPECT_EQ(r.status, 0) << r.out;
   EXPECT_NE(r.out.find("design hb-1"), std::string::npos) << r.out;
 }
@@ -73,7 +69,7 @@ TEST_F(BaselineWaiver, BaselineRoundTrip) {
   // 1. Accept today's findings (with --fail-on note the clean example still has none, so seed
   //    an accepted warning first: a pull-down above the configured maximum).
   editProject([](nlohmann::json &j) { j["rules"]["gate-pulldown"] = {{"max", "5 kohm"}}; });
-  Result first = run("check --write-baseline baseline.json", project_);
+  RunResult first = run("check --write-baseline baseline.json", project_);
   EXPECT_EQ(first.status, 0) << first.out; // warnings only, fail level error
   std::string baseline = readFile(project_ / "baseline.json");
   auto j = nlohmann::json::parse(baseline);
@@ -84,13 +80,13 @@ TEST_F(BaselineWaiver, BaselineRoundTrip) {
   EXPECT_EQ(readFile(project_ / "baseline2.json"), baseline);
 
   // 2. With the baseline, even --fail-on warning passes: the findings are accepted.
-  Result accepted = run("check --baseline baseline.json --fail-on warning", project_);
+  RunResult accepted = run("check --baseline baseline.json --fail-on warning", project_);
   EXPECT_EQ(accepted.status, 0) << accepted.out;
   EXPECT_NE(accepted.out.find("accepted in baseline"), std::string::npos) << accepted.out;
 
   // 3. A new fault fails the run and is the only finding reported as new.
   breakTurnOffResistor();
-  Result broken = run("check --baseline baseline.json --fail-on warning --format json", project_);
+  RunResult broken = run("check --baseline baseline.json --fail-on warning --format json", project_);
   EXPECT_EQ(broken.status, 1) << broken.out;
   auto report = nlohmann::json::parse(broken.out);
   std::vector<std::string> fresh;
@@ -102,13 +98,13 @@ TEST_F(BaselineWaiver, BaselineRoundTrip) {
 
 TEST_F(BaselineWaiver, FixedFindingsAreReportedAsFixed) {
   breakTurnOffResistor();
-  Result first = run("check --write-baseline baseline.json", project_);
+  RunResult first = run("check --write-baseline baseline.json", project_);
   EXPECT_EQ(first.status, 1) << first.out;
   // Repair the design: the accepted finding is now reported as fixed.
   fs::path deck = project_ / "halfbridge.cir";
   std::ofstream(deck, std::ios::binary)
       << std::regex_replace(readFile(deck), std::regex("ROFF2 GL_L G_L 0.47"), "ROFF2 GL_L G_L 2.2");
-  Result fixed = run("check --baseline baseline.json", project_);
+  RunResult fixed = run("check --baseline baseline.json", project_);
   EXPECT_EQ(fixed.status, 0) << fixed.out;
   EXPECT_NE(fixed.out.find("fixed since baseline: rg-range on XQ2"), std::string::npos) << fixed.out;
 }
@@ -119,11 +115,11 @@ TEST_F(BaselineWaiver, WaiverWaivesUntilItExpires) {
     j["waivers"] = nlohmann::json::array(
         {{{"rule", "rg-range"}, {"loop", "XQ?"}, {"reason", "board rework pending"}, {"until", "2027-06-30"}}});
   });
-  Result waived = run("check", project_, "2027-06-30");
+  RunResult waived = run("check", project_, "2027-06-30");
   EXPECT_EQ(waived.status, 0) << waived.out;
   EXPECT_NE(waived.out.find("waived: board rework pending"), std::string::npos) << waived.out;
 
-  Result expired = run("check", project_, "2027-07-01");
+  RunResult expired = run("check", project_, "2027-07-01");
   EXPECT_EQ(expired.status, 1) << expired.out;
   EXPECT_NE(expired.out.find("expired on 2027-06-30"), std::string::npos) << expired.out;
 }
@@ -132,7 +128,7 @@ TEST_F(BaselineWaiver, WaiverMatchingNothingIsANote) {
   editProject([](nlohmann::json &j) {
     j["waivers"] = nlohmann::json::array({{{"rule", "gate-clamp"}, {"loop", "XQ9"}, {"reason", "old board"}}});
   });
-  Result r = run("check --fail-on note", project_);
+  RunResult r = run("check --fail-on note", project_);
   EXPECT_EQ(r.status, 1) << r.out;
   EXPECT_NE(r.out.find("matches no finding"), std::string::npos) << r.out;
 }
@@ -142,7 +138,7 @@ TEST_F(BaselineWaiver, FailOnAndRuleOverrides) {
   EXPECT_EQ(run("check", project_).status, 1);
   EXPECT_EQ(run("check --fail-on never", project_).status, 0);
   EXPECT_EQ(run("check --rule rg-range=off", project_).status, 0);
-  Result demoted = run("check --rule rg-range=warning", project_);
+  RunResult demoted = run("check --rule rg-range=warning", project_);
   EXPECT_EQ(demoted.status, 0) << demoted.out;
   EXPECT_EQ(run("check --rule rg-range=warning --fail-on warning", project_).status, 1);
   editProject([](nlohmann::json &j) { j["rules"]["rg-range"] = {{"severity", "off"}}; });

@@ -17,11 +17,6 @@ using namespace gateloop::testing;
 
 namespace {
 
-struct Result {
-  int status = -1;
-  std::string out;
-};
-
 class CliErrors : public ::testing::Test {
 protected:
   void SetUp() override {
@@ -36,9 +31,10 @@ protected:
     std::ofstream(dir_ / name, std::ios::binary) << text;
   }
 
-  Result run(const std::string &args) {
+  // Standard output and error together: messages go to either, and the tests read both.
+  RunResult run(const std::string &args) {
     RunResult r = runGateloop(dir_, args);
-    return {r.status, r.all()};
+    return {r.status, r.all(), ""};
   }
 
   fs::path dir_;
@@ -49,7 +45,7 @@ const char *const kGoodDeck = "* ok\nR1 a b 1k\n.end\n";
 } // namespace
 
 TEST_F(CliErrors, MissingNetlistFile) {
-  Result r = run("check --netlist nothere.cir");
+  RunResult r = run("check --netlist nothere.cir");
   EXPECT_EQ(r.status, 2) << r.out;
   EXPECT_NE(r.out.find("nothere.cir"), std::string::npos) << r.out;
   EXPECT_NE(r.out.find("error:"), std::string::npos) << r.out;
@@ -57,14 +53,14 @@ TEST_F(CliErrors, MissingNetlistFile) {
 
 TEST_F(CliErrors, SpiceSyntaxErrorHasLineAndColumn) {
   write("bad.cir", "* title\nR1 a b 1k\nC1 x\n.end\n");
-  Result r = run("check --netlist bad.cir");
+  RunResult r = run("check --netlist bad.cir");
   EXPECT_EQ(r.status, 2) << r.out;
   EXPECT_NE(r.out.find("bad.cir:3:1: error:"), std::string::npos) << r.out;
 }
 
 TEST_F(CliErrors, AllErrorsAreReportedNotOnlyTheFirst) {
   write("bad.cir", "* title\nR1 a b\nC1 x\nL1 a\n.end\n");
-  Result r = run("check --netlist bad.cir");
+  RunResult r = run("check --netlist bad.cir");
   EXPECT_EQ(r.status, 2) << r.out;
   EXPECT_NE(r.out.find("bad.cir:2:1: error:"), std::string::npos) << r.out;
   EXPECT_NE(r.out.find("bad.cir:3:1: error:"), std::string::npos) << r.out;
@@ -74,7 +70,7 @@ TEST_F(CliErrors, AllErrorsAreReportedNotOnlyTheFirst) {
 TEST_F(CliErrors, IncludeCycleIsAnError) {
   write("a.cir", "* a\n.include b.inc\n.end\n");
   write("b.inc", ".include a.cir\n");
-  Result r = run("check --netlist a.cir");
+  RunResult r = run("check --netlist a.cir");
   EXPECT_EQ(r.status, 2) << r.out;
   EXPECT_NE(r.out.find("error:"), std::string::npos) << r.out;
 }
@@ -82,10 +78,10 @@ TEST_F(CliErrors, IncludeCycleIsAnError) {
 TEST_F(CliErrors, IncludeOutsideProjectRootIsRefused) {
   write("sub/top.cir", "* top\n.include ../outside.inc\n.end\n");
   write("outside.inc", "R9 a b 1k\n");
-  Result r = run("check --netlist sub/top.cir");
+  RunResult r = run("check --netlist sub/top.cir");
   EXPECT_EQ(r.status, 2) << r.out;
   EXPECT_NE(r.out.find("top.cir:2:"), std::string::npos) << r.out;
-  Result allowed = run("check --netlist sub/top.cir --allow-outside-root");
+  RunResult allowed = run("check --netlist sub/top.cir --allow-outside-root");
   EXPECT_EQ(allowed.status, 0) << allowed.out;
 }
 
@@ -99,7 +95,7 @@ TEST_F(CliErrors, SubcircuitBombIsRefusedByTheCap) {
   deck += "XTOP in out L9\n.end\n";
   write("bomb.cir", deck);
   auto t0 = std::chrono::steady_clock::now();
-  Result r = run("check --netlist bomb.cir");
+  RunResult r = run("check --netlist bomb.cir");
   double seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   EXPECT_EQ(r.status, 2) << r.out;
   EXPECT_NE(r.out.find("bomb.cir:"), std::string::npos) << r.out;
@@ -109,7 +105,7 @@ TEST_F(CliErrors, SubcircuitBombIsRefusedByTheCap) {
 TEST_F(CliErrors, XmlErrorHasLine) {
   write("bad.xml", "<netlist name=\"x\" version=\"1\">\n  <component part=\"P\">\n    <pin name=\"1\" net=\"a\"/>\n"
                    "  </component>\n</netlist>\n");
-  Result r = run("check --netlist bad.xml");
+  RunResult r = run("check --netlist bad.xml");
   EXPECT_EQ(r.status, 2) << r.out;
   EXPECT_NE(r.out.find("bad.xml:2:"), std::string::npos) << r.out;
 }
@@ -117,7 +113,7 @@ TEST_F(CliErrors, XmlErrorHasLine) {
 TEST_F(CliErrors, PartsFieldWithWrongUnitNamesTheFieldPath) {
   write("d.cir", kGoodDeck);
   write("parts.json", R"({"schema": "gateloop-parts/1", "parts": {"Q-SW1": {"kind": "igbt", "c_ies": "4.7 nH"}}})");
-  Result r = run("check --netlist d.cir --parts parts.json");
+  RunResult r = run("check --netlist d.cir --parts parts.json");
   EXPECT_EQ(r.status, 2) << r.out;
   EXPECT_NE(r.out.find("parts.json: parts.Q-SW1.c_ies: error: expected a capacitance, got \"4.7 nH\""),
             std::string::npos)
@@ -127,7 +123,7 @@ TEST_F(CliErrors, PartsFieldWithWrongUnitNamesTheFieldPath) {
 TEST_F(CliErrors, JsonSyntaxErrorHasLineAndColumn) {
   write("d.cir", kGoodDeck);
   write("layout.json", "{\n  \"schema\": \"gateloop-layout/1\",\n  \"nets\": {,}\n}\n");
-  Result r = run("check --netlist d.cir --layout layout.json");
+  RunResult r = run("check --netlist d.cir --layout layout.json");
   EXPECT_EQ(r.status, 2) << r.out;
   EXPECT_NE(r.out.find("layout.json:3:"), std::string::npos) << r.out;
 }
@@ -136,40 +132,40 @@ TEST_F(CliErrors, ProjectFileFieldErrors) {
   write("d.cir", kGoodDeck);
   write("gateloop.json", R"({"schema": "gateloop/1", "designs": [{"name": "a", "netlist": "d.cir",
     "operating": {"f_sw": "16 kV"}}], "waivers": [{"rule": "gate-pulldown", "loop": "*", "reason": ""}]})");
-  Result r = run("check");
+  RunResult r = run("check");
   EXPECT_EQ(r.status, 2) << r.out;
   EXPECT_NE(r.out.find("designs[0].operating.f_sw"), std::string::npos) << r.out;
   EXPECT_NE(r.out.find("waivers[0].reason"), std::string::npos) << r.out;
 }
 
 TEST_F(CliErrors, NoProjectFileFound) {
-  Result r = run("check");
+  RunResult r = run("check");
   EXPECT_EQ(r.status, 2) << r.out;
   EXPECT_NE(r.out.find("no project file gateloop.json"), std::string::npos) << r.out;
 }
 
 TEST_F(CliErrors, UnknownRuleIdGetsDidYouMean) {
   write("d.cir", kGoodDeck);
-  Result r = run("check --netlist d.cir --rule loop-dampng=off");
+  RunResult r = run("check --netlist d.cir --rule loop-dampng=off");
   EXPECT_EQ(r.status, 2) << r.out;
   EXPECT_NE(r.out.find("did you mean \"loop-damping\""), std::string::npos) << r.out;
-  Result e = run("explain gate-clam");
+  RunResult e = run("explain gate-clam");
   EXPECT_EQ(e.status, 2) << e.out;
   EXPECT_NE(e.out.find("did you mean \"gate-clamp\""), std::string::npos) << e.out;
 }
 
 TEST_F(CliErrors, BadOptionValueIsAUsageError) {
   write("d.cir", kGoodDeck);
-  Result r = run("check --netlist d.cir --format pdf");
+  RunResult r = run("check --netlist d.cir --format pdf");
   EXPECT_EQ(r.status, 2) << r.out;
-  Result f = run("check --netlist d.cir --fail-on sometimes");
+  RunResult f = run("check --netlist d.cir --fail-on sometimes");
   EXPECT_EQ(f.status, 2) << f.out;
 }
 
 TEST_F(CliErrors, BadInputNeverOverwritesAnExistingReport) {
   write("bad.cir", "* title\nR1 a b\n.end\n");
   write("report.json", "previous report\n");
-  Result r = run("check --netlist bad.cir --format json --output report.json");
+  RunResult r = run("check --netlist bad.cir --format json --output report.json");
   EXPECT_EQ(r.status, 2) << r.out;
   std::ifstream in(dir_ / "report.json");
   std::stringstream ss;
@@ -183,13 +179,13 @@ TEST_F(CliErrors, BinaryGarbageIsAnErrorNotACrash) {
   std::string junk = "\x7f" "ELF";
   for (int i = 0; i < 4096; ++i) junk += static_cast<char>((i * 131 + 7) % 256);
   write("junk.cir", junk);
-  Result r = run("check --netlist junk.cir");
+  RunResult r = run("check --netlist junk.cir");
   EXPECT_EQ(r.status, 2) << r.out.substr(0, 400);
 }
 
 TEST_F(CliErrors, CleanBareDeckExitsZeroWithASummary) {
   write("d.cir", "* bare deck without parts\nM1 d g 0 0 NM\nRG g drv 4.7\nV1 drv 0 PULSE(0 15 0 1n 1n 1u 2u)\n.model NM NMOS\n.end\n");
-  Result r = run("check --netlist d.cir");
+  RunResult r = run("check --netlist d.cir");
   EXPECT_EQ(r.status, 0) << r.out;
   EXPECT_NE(r.out.find("read 3 components"), std::string::npos) << r.out;
   EXPECT_NE(r.out.find("without part data"), std::string::npos) << r.out; // the connectivity note

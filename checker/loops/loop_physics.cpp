@@ -110,6 +110,14 @@ private:
     for (auto &s : all.missing) note(missing_, s);
   }
 
+  // A path that carries both edges is computed once: with drawn traces its layout inductance is
+  // a partial-element sum over every pair of segments.
+  const PathNumbers &cachedPathNumbers(const GatePath &path) {
+    auto it = pathCache_.find(&path);
+    if (it == pathCache_.end()) it = pathCache_.emplace(&path, pathNumbers(path)).first;
+    return it->second;
+  }
+
   PathNumbers pathNumbers(const GatePath &path) {
     PathNumbers pn;
     double r = 0.0;
@@ -141,7 +149,7 @@ private:
   void edge(bool on, EdgeAnalysis &e) {
     std::vector<std::pair<const GatePath *, PathNumbers>> paths;
     for (const auto &p : loop_.paths)
-      if (on ? p.conductsOn : p.conductsOff) paths.emplace_back(&p, pathNumbers(p));
+      if (on ? p.conductsOn : p.conductsOff) paths.emplace_back(&p, cachedPathNumbers(p));
     e.hasPath = !paths.empty();
     if (!e.hasPath) return;
 
@@ -264,6 +272,7 @@ private:
   const Part *drv_;
   LoopAnalysis a_;
   std::set<std::string> assumptions_, missing_;
+  std::map<const GatePath *, PathNumbers> pathCache_;
 };
 
 } // namespace

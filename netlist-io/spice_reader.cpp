@@ -58,29 +58,8 @@ bool isIdentifier(std::string_view s) {
 }
 
 struct CiHash {
-  /// Eight bytes at a time; OR-ing 0x20 into every byte folds ASCII upper case onto lower case
-  /// (and merges a few punctuation pairs, harmless for a hash), so names equal ignoring case hash
-  /// equal.
   std::size_t operator()(std::string_view s) const noexcept {
-    constexpr std::uint64_t kFold = 0x2020202020202020ull;
-    constexpr std::uint64_t kMul = 0xff51afd7ed558ccdull;
-    std::uint64_t h = 0x9E3779B97F4A7C15ull ^ s.size();
-    std::size_t i = 0;
-    for (; i + 8 <= s.size(); i += 8) {
-      std::uint64_t w;
-      std::memcpy(&w, s.data() + i, 8);
-      h = (h ^ (w | kFold)) * kMul;
-      h ^= h >> 32;
-    }
-    if (i < s.size()) {
-      std::uint64_t w = 0;
-      std::memcpy(&w, s.data() + i, s.size() - i);
-      h = (h ^ (w | kFold)) * kMul;
-    }
-    h ^= h >> 33;
-    h *= kMul;
-    h ^= h >> 33;
-    return static_cast<std::size_t>(h);
+    return static_cast<std::size_t>(hashIgnoreCase(s));
   }
 };
 struct CiEq {
@@ -188,8 +167,7 @@ ElementKind kindOfLetter(char letter) {
 // --- Data of pass 1 and 2 ---------------------------------------------------------------------
 
 struct SourceFile {
-  std::string owned;
-  std::string_view text;
+  std::string_view text;  ///< kept by the circuit (Circuit::keepText)
   FileId id = 0;
   fs::path dir;           ///< folder that relative includes start from
   std::string canonical;  ///< canonical path; empty for text given in memory
@@ -491,6 +469,26 @@ private:
   std::size_t topComponents_ = 0;
   std::uint32_t pinCache_[32][9] = {};
   std::vector<NetId> netScratch_;
+  std::string nameScratch_;
+  /// First half of the duplicate-name check, done while the names are at hand: one bit per
+  /// hash bucket of top-level names seen, one per bucket seen twice (reportDuplicateNames).
+  std::vector<std::uint64_t> namesSeen_, namesShared_;
+  std::size_t nameBucketMask_ = 0;
+  void markTopName(std::string_view name) {
+    if (namesSeen_.empty()) return;
+    const std::size_t b = hashIgnoreCase(name) & nameBucketMask_;
+    const std::uint64_t bit = std::uint64_t{1} << (b & 63);
+    if (namesSeen_[b >> 6] & bit) namesShared_[b >> 6] |= bit;
+    else namesSeen_[b >> 6] |= bit;
+  }
+  /// Text of the file whose top-level cards are being built: the circuit keeps it, so names
+  /// read verbatim from it are handed on without a copy.
+  std::string_view scanning_;
+  Circuit::NameIn whereIs(std::string_view name) const {
+    return name.data() >= scanning_.data() && name.data() + name.size() <= scanning_.data() + scanning_.size()
+               ? Circuit::NameIn::keptText
+               : Circuit::NameIn::anywhere;
+  }
   std::uint64_t emitted_ = 0;
   bool capReported_ = false;
 
@@ -687,24 +685,25 @@ std::optional<std::uint32_t> SpiceDeckReader::loadFile(const fs::path &canonical
     error(requestedAt, "cannot read '" + shown + "': larger than 4 GiB");
     return std::nullopt;
   }
-  if (!ec) src->owned.reserve(static_cast<std::size_t>(size));
+  std::string text;
+  if (!ec) text.reserve(static_cast<std::size_t>(size));
   char buf[1 << 16];
   bool readError = false;
   for (;;) {
     std::size_t n = std::fread(buf, 1, sizeof buf, fp);
-    src->owned.append(buf, n);
-    if (src->owned.size() > kMaxFileSize) break;
+    text.append(buf, n);
+    if (text.size() > kMaxFileSize) break;
     if (n < sizeof buf) {
       readError = std::ferror(fp) != 0;
       break;
     }
   }
   std::fclose(fp);
-  if (readError || src->owned.size() > kMaxFileSize) {
+  if (readError || text.size() > kMaxFileSize) {
     error(requestedAt, "cannot read '" + shown + "'" + (readError ? "" : ": larger than 4 GiB"));
     return std::nullopt;
   }
-  src->text = src->owned;
+  src->text = circuit_.keepText(std::move(text));
   src->canonical = key;
   src->dir = canonical.parent_path();
   src->id = requestedAtPtr ? files_.add(displayName(canonical)) : requestedAt.file;
@@ -1659,10 +1658,10 @@ NetId SpiceDeckReader::resolveNet(const NodeRef &n, const Instance &inst) {
   case NodeClass::Local: break;
   }
   if (inst.prefix.empty()) {
-    std::size_t h = CiHash{}(n.name);
+    std::uint64_t h = hashIgnoreCase(n.name);
     NetId id = recentNets_.find(n.name, h);
     if (id == kNone) {
-      id = circuit_.net(n.name, n.where);
+      id = circuit_.net(n.name, h, n.where, whereIs(n.name));
       recentNets_.put(n.name, h, id);
     }
     return id;
@@ -1724,12 +1723,15 @@ void SpiceDeckReader::emit(const Rec &rec, const NodeRef *nodes, const ParamPair
     return;
   }
   Component c;
+  Circuit::NameIn nameIn = Circuit::NameIn::anywhere;
   if (top) {
-    c.name = std::string(rec.name);
+    c.name = rec.name;
+    nameIn = whereIs(rec.name);
+    markTopName(rec.name);
   } else {
-    c.name.reserve(inst.prefix.size() + 1 + rec.name.size());
-    c.name.append(inst.prefix).push_back('.');
-    c.name.append(rec.name);
+    nameScratch_.assign(inst.prefix).push_back('.');
+    nameScratch_.append(rec.name);
+    c.name = nameScratch_; // addComponent copies it
   }
 
   c.kind = rec.kind;
@@ -1764,7 +1766,7 @@ void SpiceDeckReader::emit(const Rec &rec, const NodeRef *nodes, const ParamPair
       c.model = modelId(rec.model);
     }
   }
-  ComponentId id = circuit_.addComponent(std::move(c), netScratch_, pinNamesId);
+  ComponentId id = circuit_.addComponent(std::move(c), netScratch_, pinNamesId, nameIn);
   ++emitted_;
   if (top) ++topComponents_;
   if (expands)
@@ -1835,6 +1837,13 @@ void SpiceDeckReader::build() {
   std::size_t reserveCount = static_cast<std::size_t>(
       std::min<std::uint64_t>(estimate, options_.maxElements) + circuit_.components().size());
   circuit_.reserve(reserveCount, reserveCount * 3 / 5 + 16);
+  {
+    std::size_t bits = std::size_t{1} << 16;
+    while (bits < 8 * topCardCount_) bits *= 2;
+    nameBucketMask_ = bits - 1;
+    namesSeen_.assign(bits / 64, 0);
+    namesShared_.assign(bits / 64, 0);
+  }
 
   Instance top;
   top.env = &globalEnv_;
@@ -1844,6 +1853,7 @@ void SpiceDeckReader::build() {
   SpiceCard card;
   for (const CardRun &run : topRuns_) {
     const SourceFile &f = *sources_[run.file];
+    scanning_ = f.text;
     SpiceCardScanner scanner(f.text, run.offset, run.line);
     for (std::uint32_t k = 0; k < run.count && !stop_; ++k) {
       if (!scanner.next(card)) break; // cannot happen: the same scan found these cards
@@ -1855,46 +1865,43 @@ void SpiceDeckReader::build() {
       emit(rec, nodes.data(), pairs.data(), top);
     }
   }
-  // Everything read from the files has been copied into the circuit: give the text back before
-  // the duplicate check allocates its keys (this lowers the peak memory of big decks).
-  for (auto &src : sources_) {
-    std::string().swap(src->owned);
-    src->text = {};
-  }
+  scanning_ = {};
   if (!stop_) reportDuplicateNames(firstTopComponent);
 }
 
-/// Duplicate top-level names, found by sorting (32-bit name hash, id) with a stable radix sort
-/// instead of a hash table probed per element: a million random probes into a table bigger than
-/// the cache cost more than the whole rest of the parse.
+/// Duplicate top-level names. A hash table probed once per element would cost a million random
+/// probes into memory bigger than the cache, and a sort of all names as much memory again as the
+/// names' components: instead, two bit sets (eight bits per element, in cache; filled by
+/// markTopName as elements are built) find the few elements whose hash bucket is shared, and only
+/// those are sorted and compared by name.
 void SpiceDeckReader::reportDuplicateNames(ComponentId first) {
   const auto &comps = circuit_.components();
-  std::vector<std::uint64_t> keys;
-  keys.reserve(topComponents_);
-  for (std::size_t i = first; i < comps.size(); ++i)
-    if (comps[i].parent == kNone)
-      keys.push_back((static_cast<std::uint64_t>(CiHash{}(comps[i].name) >> 32) << 32) | i);
-  std::vector<std::uint64_t> tmp(keys.size());
-  constexpr int kBits[] = {11, 11, 10};
-  int shift = 32;
-  for (int bits : kBits) {
-    std::vector<std::size_t> counts((std::size_t{1} << bits) + 1, 0);
-    const std::uint64_t mask = (std::uint64_t{1} << bits) - 1;
-    for (std::uint64_t k : keys) ++counts[((k >> shift) & mask) + 1];
-    for (std::size_t b = 1; b < counts.size(); ++b) counts[b] += counts[b - 1];
-    for (std::uint64_t k : keys) tmp[counts[(k >> shift) & mask]++] = k;
-    keys.swap(tmp);
-    shift += bits;
+  const std::size_t mask = nameBucketMask_;
+  const std::vector<std::uint64_t> shared = std::move(namesShared_);
+  namesSeen_ = {};
+  std::vector<std::uint64_t> keys; // (upper 32 bits of the hash, component id)
+  for (std::size_t i = first; i < comps.size(); ++i) {
+    if (comps[i].parent != kNone) continue;
+    const std::uint64_t h = hashIgnoreCase(comps[i].name);
+    const std::size_t b = h & mask;
+    if (shared[b >> 6] & (std::uint64_t{1} << (b & 63))) keys.push_back((h >> 32 << 32) | i);
   }
-  tmp = {};
+  std::sort(keys.begin(), keys.end());
+  std::vector<std::pair<ComponentId, ComponentId>> duplicates; // (later, nearest earlier)
   for (std::size_t i = 0; i < keys.size(); ++i) {
-    std::uint64_t h = keys[i] >> 32;
+    const std::uint64_t h = keys[i] >> 32;
     for (std::size_t j = i; j-- > 0 && (keys[j] >> 32) == h;) {
-      const Component &a = comps[keys[j] & 0xffffffffu], &b = comps[keys[i] & 0xffffffffu];
-      if (!equalsIgnoreCase(a.name, b.name)) continue;
-      error(b.where, "duplicate element name " + b.name + " (first at " + locText(a.where) + ")");
+      const auto a = static_cast<ComponentId>(keys[j] & 0xffffffffu);
+      const auto b = static_cast<ComponentId>(keys[i] & 0xffffffffu);
+      if (!equalsIgnoreCase(comps[a].name, comps[b].name)) continue;
+      duplicates.emplace_back(b, a);
       break;
     }
+  }
+  std::sort(duplicates.begin(), duplicates.end());
+  for (auto [later, earlier] : duplicates) {
+    const Component &a = comps[earlier], &b = comps[later];
+    error(b.where, "duplicate element name " + std::string(b.name) + " (first at " + locText(a.where) + ")");
     if (stop_) return;
   }
 }
@@ -1918,13 +1925,13 @@ bool SpiceDeckReader::readText(std::string_view text, const std::string &display
   std::error_code ec;
   setRoot(fs::current_path(ec));
   auto src = std::make_unique<SourceFile>();
-  src->text = text;
   src->id = files_.add(displayName);
   src->dir = root_;
   if (text.size() > kMaxFileSize) {
     error({src->id, 0, 0}, "deck is larger than 4 GiB");
     return false;
   }
+  src->text = circuit_.keepText(std::string(text));
   if (text.size() >= 3 && std::memcmp(text.data(), "\xEF\xBB\xBF", 3) == 0) src->bodyStart = 3;
   bool good = checkEncoding(*src);
   sources_.push_back(std::move(src));

@@ -87,7 +87,7 @@ private:
         f.rule = info().id;
         f.severity = Severity::Error;
         f.design = design.name;
-        f.refs = {comp.name};
+        f.refs = {std::string(comp.name)};
         f.where = comp.where;
         f.message = fmt::format("output {} of driver {} (net {}) reaches no switch gate", it->second, comp.name,
                                 c.netAt(net).name);
@@ -106,13 +106,13 @@ private:
     }
     if (bare.empty()) return;
     std::string names;
-    for (std::size_t i = 0; i < bare.size() && i < 5; ++i) names += (i ? ", " : "") + bare[i]->name;
+    for (std::size_t i = 0; i < bare.size() && i < 5; ++i) names += std::string(i ? ", " : "").append(bare[i]->name);
     if (bare.size() > 5) names += fmt::format(" and {} more", bare.size() - 5);
     Finding f;
     f.rule = info().id;
     f.severity = Severity::Note;
     f.design = design.name;
-    f.refs = {bare.front()->name};
+    f.refs = {std::string(bare.front()->name)};
     f.where = bare.front()->where;
     f.message = fmt::format("{} transistor{} without part data ({}); their gate loops are not checked", bare.size(),
                             bare.size() == 1 ? "" : "s", names);

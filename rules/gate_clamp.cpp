@@ -57,7 +57,7 @@ private:
     auto breakdown = [&](ComponentId id) -> std::optional<double> {
       const Part *p = design.partOf(id);
       if (p && p->vBreakdown) return p->vBreakdown->si();
-      c.missing = "v_breakdown of " + design.component(id).name;
+      c.missing = "v_breakdown of " + std::string(design.component(id).name);
       return std::nullopt;
     };
     auto forward = [&](ComponentId id) {

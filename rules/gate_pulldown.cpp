@@ -37,7 +37,7 @@ public:
       for (ComponentId id : pulldowns) {
         const Component &r = design.component(id);
         if (!r.hasValue()) {
-          sink.report(missingDataNote(info(), design, loop, "the value of pull-down " + r.name, {id}));
+          sink.report(missingDataNote(info(), design, loop, "the value of pull-down " + std::string(r.name), {id}));
           continue;
         }
         if (r.value >= rMin && r.value <= rMax) continue;

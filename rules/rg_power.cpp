@@ -50,7 +50,7 @@ public:
 private:
   void checkLoad(const DesignContext &design, const GateLoop &loop, const ResistorLoad &l, double margin,
                  FindingSink &sink) const {
-    const std::string &name = design.component(l.id).name;
+    const std::string name(design.component(l.id).name);
     if (l.pulseRate.si() <= 0.0) {
       sink.report(missingDataNote(info(), design, loop, "operating.f_sw (switching frequency)", {l.id}));
       return;

@@ -46,7 +46,7 @@ public:
 private:
   void checkLoad(const DesignContext &design, const GateLoop &loop, const ResistorLoad &l, bool on, double margin,
                  FindingSink &sink) const {
-    const std::string &name = design.component(l.id).name;
+    const std::string name(design.component(l.id).name);
     if (!l.pulseLimit) {
       sink.report(missingDataNote(info(), design, loop,
                                   "a pulse-load curve ('pulse') and p_rated in the resistor part of " + name, {l.id}));

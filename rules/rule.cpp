@@ -10,7 +10,7 @@ Finding makeLoopFinding(const RuleInfo &info, Severity severity, const DesignCon
   f.severity = severity;
   f.design = design.name;
   f.loop = loop.id;
-  for (ComponentId id : refs) f.refs.push_back(design.circuit.component(id).name);
+  for (ComponentId id : refs) f.refs.emplace_back(design.circuit.component(id).name);
   f.message = std::move(message);
   // Point at the first named component (the element to edit); else at the switch.
   ComponentId at = refs.empty() ? loop.switchId : refs.front();

@@ -40,7 +40,7 @@ struct Parsed {
     ComponentId id = circuit.findComponent(comp);
     if (id == kNone) return "<no component>";
     NetId n = circuit.pinNet(circuit.component(id), pin);
-    return n == kNone ? "<no pin>" : circuit.netAt(n).name;
+    return n == kNone ? "<no pin>" : std::string(circuit.netAt(n).name);
   }
 };
 

@@ -29,7 +29,7 @@ XmlResult readText(const std::string &text) {
 
 std::vector<std::string> pinNetNames(const Circuit &c, const Component &comp) {
   std::vector<std::string> out;
-  for (NetId n : c.pins(comp)) out.push_back(c.netAt(n).name);
+  for (NetId n : c.pins(comp)) out.emplace_back(c.netAt(n).name);
   return out;
 }
 

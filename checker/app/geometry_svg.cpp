@@ -85,8 +85,8 @@ std::string writeLoopGeometrySvgs(const RunReport &report, const RunInputs &inpu
       const GateLoop &loop = design.loops[i];
       std::vector<std::string> outgoing;
       for (const auto &p : loop.paths)
-        for (NetId n : p.nets) outgoing.push_back(design.circuit->netAt(n).name);
-      std::string ref = loop.refNet == kNone ? std::string() : design.circuit->netAt(loop.refNet).name;
+        for (NetId n : p.nets) outgoing.emplace_back(design.circuit->netAt(n).name);
+      std::string ref = loop.refNet == kNone ? std::string() : std::string(design.circuit->netAt(loop.refNet).name);
       auto g = buildLoopGeometry(outgoing, ref, *loaded.layout);
       if (!g) continue;
       const LoopAnalysis &a = design.analyses[i];

@@ -83,7 +83,7 @@ std::size_t guessTopologyNets(const Circuit &circuit, NetList &nets, std::vector
     auto pins = circuit.pins(c);
     if (pins.size() < 3) continue;
     NetId gate = pins[1], source = pins[2];
-    switchNames.push_back(c.name);
+    switchNames.emplace_back(c.name);
     nets.add(gate);
     for (const Component &s : comps) {
       if (s.hidden || !isSeriesKind(s.kind)) continue;
@@ -99,12 +99,12 @@ std::size_t guessTopologyNets(const Circuit &circuit, NetList &nets, std::vector
   return switchNames.size();
 }
 
-std::string netName(const Circuit &circuit, NetId id) { return id == kNone ? "-" : circuit.netAt(id).name; }
+std::string netName(const Circuit &circuit, NetId id) { return id == kNone ? "-" : std::string(circuit.netAt(id).name); }
 
 std::string describeLoop(const Circuit &circuit, const GateLoop &loop) {
   std::string text = fmt::format("  {}: gate {}, reference {}", loop.id, netName(circuit, loop.gateNet),
                                  netName(circuit, loop.refNet));
-  if (loop.driver != kNone) text += ", driver " + circuit.component(loop.driver).name;
+  if (loop.driver != kNone) text += ", driver " + std::string(circuit.component(loop.driver).name);
   else text += ", no driver found";
   text += fmt::format(", {} path{}", loop.paths.size(), loop.paths.size() == 1 ? "" : "s");
   return text;

@@ -35,7 +35,8 @@ class Accumulator {
 public:
   Accumulator(const Layout *layout, const OperatingPoint &op) : layout_(layout), op_(op) {}
 
-  void addNet(const std::string &net) {
+  void addNet(std::string_view netName) {
+    const std::string net(netName);
     if (done_.count(toLower(net))) return;
     done_.insert(toLower(net));
     if (!layout_) return;
@@ -157,8 +158,8 @@ std::optional<NetsInductance> traceInductance(const std::vector<NetId> &outgoing
                                               const Layout &layout) {
   std::vector<std::string> outNames;
   for (NetId n : outgoing)
-    if (n != kNone) outNames.push_back(circuit.netAt(n).name);
-  std::string refName = ref == kNone ? std::string() : circuit.netAt(ref).name;
+    if (n != kNone) outNames.emplace_back(circuit.netAt(n).name);
+  std::string refName = ref == kNone ? std::string() : std::string(circuit.netAt(ref).name);
   auto geometry = buildLoopGeometry(outNames, refName, layout);
   if (!geometry) return std::nullopt;
   std::optional<Meter> planeZ;

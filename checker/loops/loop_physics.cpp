@@ -130,7 +130,7 @@ private:
         if (c.hasValue()) r += c.value;
         else {
           known = false;
-          note(missing_, "value of gate resistor " + c.name);
+          note(missing_, "value of gate resistor " + std::string(c.name));
         }
         if (p && p->esl) pn.inductance += *p->esl;
       } else if (role == LoopRole::Inductor && c.hasValue()) {

@@ -1,6 +1,9 @@
 #include "checker/model/circuit.h"
 
 #include <cassert>
+#include <cstring>
+
+#include "checker/core/huge_pages.h"
 
 namespace gateloop {
 
@@ -37,15 +40,45 @@ std::string toLower(std::string_view s) {
   return out;
 }
 
-bool equalsIgnoreCase(std::string_view a, std::string_view b) {
-  if (a.size() != b.size()) return false;
-  for (std::size_t i = 0; i < a.size(); ++i) {
-    char x = a[i], y = b[i];
-    if (x >= 'A' && x <= 'Z') x = static_cast<char>(x - 'A' + 'a');
-    if (y >= 'A' && y <= 'Z') y = static_cast<char>(y - 'A' + 'a');
-    if (x != y) return false;
+std::uint64_t hashIgnoreCase(std::string_view s) noexcept {
+  // Eight bytes at a time; OR-ing 0x20 into every byte folds ASCII upper case onto lower case
+  // (and merges a few punctuation pairs, harmless for a hash), so names equal ignoring case hash
+  // equal.
+  constexpr std::uint64_t kFold = 0x2020202020202020ull;
+  constexpr std::uint64_t kMul = 0xff51afd7ed558ccdull;
+  std::uint64_t h = 0x9E3779B97F4A7C15ull ^ s.size();
+  std::size_t i = 0;
+  for (; i + 8 <= s.size(); i += 8) {
+    std::uint64_t w;
+    std::memcpy(&w, s.data() + i, 8);
+    h = (h ^ (w | kFold)) * kMul;
+    h ^= h >> 32;
   }
-  return true;
+  if (i < s.size()) {
+    std::uint64_t w = 0;
+    std::memcpy(&w, s.data() + i, s.size() - i);
+    h = (h ^ (w | kFold)) * kMul;
+  }
+  h ^= h >> 33;
+  h *= kMul;
+  h ^= h >> 33;
+  return h;
+}
+
+std::string_view NameStorage::store(std::string_view s) {
+  if (s.empty()) return {};
+  if (s.size() > left_) {
+    std::size_t bytes = std::max(kBlockBytes, s.size());
+    blocks_.push_back(std::make_unique_for_overwrite<char[]>(bytes));
+    next_ = blocks_.back().get();
+    left_ = bytes;
+  }
+  std::memcpy(next_, s.data(), s.size());
+  std::string_view stored(next_, s.size());
+  next_ += s.size();
+  left_ -= s.size();
+  used_ += s.size();
+  return stored;
 }
 
 std::vector<std::string> standardPinNames(ElementKind kind, std::size_t count) {
@@ -74,20 +107,42 @@ Circuit::Circuit() {
   pinNameListIndex_.emplace(std::string(), 0);
 }
 
-NetId Circuit::net(std::string_view name, SourceLocation where) {
-  std::string key = toLower(name);
-  bool ground = key == "0" || key == "gnd";
-  if (ground) key = "0";
-  auto [it, inserted] = netIndex_.try_emplace(std::move(key), static_cast<NetId>(nets_.size()));
-  if (inserted) nets_.push_back(Net{ground ? std::string("0") : std::string(name), ground, false, where});
-  return it->second;
+namespace {
+bool namesGround(std::string_view name) { return name == "0" || equalsIgnoreCase(name, "gnd"); }
+} // namespace
+
+std::string_view Circuit::keepText(std::string text) {
+  keptTexts_.push_back(std::make_unique<std::string>(std::move(text)));
+  return *keptTexts_.back();
+}
+
+bool Circuit::inKeptText(std::string_view name) const {
+  for (const auto &t : keptTexts_)
+    if (name.data() >= t->data() && name.data() + name.size() <= t->data() + t->size()) return true;
+  return false;
+}
+
+NetId Circuit::net(std::string_view name, std::uint64_t hash, SourceLocation where, NameIn nameIn) {
+  auto nameOf = [this](NetId id) { return nets_[id].name; };
+  if (namesGround(name)) {
+    if (ground_ == kNone) {
+      ground_ = static_cast<NetId>(nets_.size());
+      nets_.push_back(Net{names_.store("0"), where, true, false});
+    }
+    return ground_;
+  }
+  NetId id = netIndex_.find(name, hash, nameOf);
+  if (id != kNone) return id;
+  id = static_cast<NetId>(nets_.size());
+  assert(nameIn == NameIn::anywhere || inKeptText(name));
+  nets_.push_back(Net{nameIn == NameIn::keptText ? name : names_.store(name), where, false, false});
+  netIndex_.insert(id, hash, nameOf);
+  return id;
 }
 
 NetId Circuit::findNet(std::string_view name) const {
-  std::string key = toLower(name);
-  if (key == "gnd") key = "0";
-  auto it = netIndex_.find(key);
-  return it == netIndex_.end() ? kNone : it->second;
+  if (namesGround(name)) return ground_;
+  return netIndex_.find(name, hashIgnoreCase(name), [this](NetId id) { return nets_[id].name; });
 }
 
 StringId Circuit::intern(std::string_view s) {
@@ -108,15 +163,17 @@ std::uint32_t Circuit::internPinNames(const std::vector<std::string> &names) {
   return it->second;
 }
 
-ComponentId Circuit::addComponent(Component c, std::span<const NetId> nets, std::uint32_t pinNamesId) {
+ComponentId Circuit::addComponent(Component c, std::span<const NetId> nets, std::uint32_t pinNamesId,
+                                  NameIn nameIn) {
   assert(pinNameLists_[pinNamesId].size() == nets.size() && "pin names must match pin count");
   c.firstPin = static_cast<std::uint32_t>(pinNets_.size());
   c.pinCount = static_cast<std::uint16_t>(nets.size());
   c.pinNames = pinNamesId;
+  assert(nameIn == NameIn::anywhere || inKeptText(c.name));
+  if (nameIn == NameIn::anywhere) c.name = names_.store(c.name);
   pinNets_.insert(pinNets_.end(), nets.begin(), nets.end());
   components_.push_back(std::move(c));
-  // clear() walks every bucket even when empty; readers add millions of components.
-  if (!componentIndex_.empty()) componentIndex_.clear();
+  if (componentIndex_.size() != 0) componentIndex_.clear();
   return static_cast<ComponentId>(components_.size() - 1);
 }
 
@@ -128,20 +185,27 @@ NetId Circuit::pinNet(const Component &c, std::string_view pinName) const {
 }
 
 ComponentId Circuit::findComponent(std::string_view name) const {
-  if (componentIndex_.empty() && !components_.empty()) {
-    componentIndex_.reserve(components_.size());
-    for (std::size_t i = 0; i < components_.size(); ++i)
-      componentIndex_.try_emplace(toLower(components_[i].name), static_cast<ComponentId>(i));
+  auto nameOf = [this](ComponentId id) { return components_[id].name; };
+  if (componentIndex_.size() == 0 && !components_.empty()) {
+    componentIndex_.reserve(components_.size(), nameOf);
+    // The first of two equally named components wins, as a reader reports the second.
+    for (std::size_t i = 0; i < components_.size(); ++i) {
+      std::uint64_t h = hashIgnoreCase(components_[i].name);
+      if (componentIndex_.find(components_[i].name, h, nameOf) == kNone)
+        componentIndex_.insert(static_cast<ComponentId>(i), h, nameOf);
+    }
   }
-  auto it = componentIndex_.find(toLower(name));
-  return it == componentIndex_.end() ? kNone : it->second;
+  return componentIndex_.find(name, hashIgnoreCase(name), nameOf);
 }
 
 void Circuit::reserve(std::size_t components, std::size_t nets) {
   components_.reserve(components);
   pinNets_.reserve(components * 3); // decks average about three pins per element
   nets_.reserve(nets);
-  netIndex_.reserve(nets);
+  netIndex_.reserve(nets, [this](NetId id) { return nets_[id].name; });
+  adviseHugePages(components_.data(), components_.capacity() * sizeof(Component));
+  adviseHugePages(pinNets_.data(), pinNets_.capacity() * sizeof(NetId));
+  adviseHugePages(nets_.data(), nets_.capacity() * sizeof(Net));
 }
 
 } // namespace gateloop

@@ -15,9 +15,9 @@ namespace {
 
 char lower(char c) { return c >= 'A' && c <= 'Z' ? static_cast<char>(c - 'A' + 'a') : c; }
 
-std::string unknownPartMessage(const std::string &id, const PartLibrary &lib, const std::string &element = {}) {
+std::string unknownPartMessage(const std::string &id, const PartLibrary &lib, std::string_view element = {}) {
   std::string msg = "unknown part \"" + id + "\"";
-  if (!element.empty()) msg += " on " + element;
+  if (!element.empty()) msg.append(" on ").append(element);
   std::vector<std::string> ids;
   for (const auto &p : lib.parts) ids.push_back(p.id);
   if (lib.parts.empty()) msg += " (no parts library is loaded)";
@@ -146,7 +146,7 @@ void resolveParts(Circuit &circuit, const PartLibrary &lib,
     }
     if (c.part != kNone && !viaMatch && !compatible(c.kind, lib.parts[c.part].kind))
       diags.warning(c.where, std::string("part \"") + lib.parts[c.part].id + "\" is a " +
-                                 partKindName(lib.parts[c.part].kind) + " but " + c.name + " is a " +
+                                 partKindName(lib.parts[c.part].kind) + " but " + std::string(c.name) + " is a " +
                                  elementKindName(c.kind) + " element");
   }
 

@@ -101,7 +101,7 @@ std::optional<Severity> worstActiveSeverity(const DesignReport &d, const std::st
 }
 
 std::string driverName(const DesignReport &d, const GateLoop &loop) {
-  return loop.driver == kNone ? std::string() : d.circuit->component(loop.driver).name;
+  return loop.driver == kNone ? std::string() : std::string(d.circuit->component(loop.driver).name);
 }
 
 } // namespace gateloop

@@ -1,5 +1,6 @@
 #include "rules/registry.h"
 
+#include "checker/core/parallel.h"
 #include "checker/core/text_util.h"
 #include "rules/all_rules.h"
 
@@ -52,26 +53,36 @@ void validateRuleParams(const std::map<std::string, nlohmann::json> &params, Fil
 
 std::vector<Finding> runRules(const DesignContext &design, const std::map<std::string, nlohmann::json> &params,
                               const std::map<std::string, SeverityOverride> &overrides) {
-  CollectingSink sink;
-  for (const auto &rule : builtinRules()) {
-    const std::string &id = rule->info().id;
-    auto p = params.find(id);
-    RuleOptions options(id, p == params.end() ? nlohmann::json() : p->second);
-    std::optional<SeverityOverride> level;
-    if (auto s = options.severityOverride()) level = parseSeverityOverride(*s);
-    if (auto o = overrides.find(id); o != overrides.end()) level = o->second;
-    if (level && level->off) continue;
+  // Rules only read the design, so they run side by side; their findings are merged in the
+  // registry's order, which keeps the output the same however the work was shared out.
+  const auto &rules = builtinRules();
+  std::vector<std::vector<Finding>> perRule(rules.size());
+  parallelFor(
+      rules.size(),
+      [&](std::size_t r) {
+        const Rule &rule = *rules[r];
+        const std::string &id = rule.info().id;
+        auto p = params.find(id);
+        RuleOptions options(id, p == params.end() ? nlohmann::json() : p->second);
+        std::optional<SeverityOverride> level;
+        if (auto s = options.severityOverride()) level = parseSeverityOverride(*s);
+        if (auto o = overrides.find(id); o != overrides.end()) level = o->second;
+        if (level && level->off) return;
 
-    CollectingSink ruleSink;
-    rule->check(design, options, ruleSink);
-    for (Finding &f : ruleSink.findings()) {
-      // A fixed level replaces the rule's own grading, except for notes about missing data,
-      // which must stay notes: they say the check could not be made, not that it failed.
-      if (level && f.severity != Severity::Note) f.severity = level->level;
-      if (f.fingerprint.empty()) f.fingerprint = findingFingerprint(f);
-      sink.report(std::move(f));
-    }
-  }
+        CollectingSink ruleSink;
+        rule.check(design, options, ruleSink);
+        for (Finding &f : ruleSink.findings()) {
+          // A fixed level replaces the rule's own grading, except for notes about missing data,
+          // which must stay notes: they say the check could not be made, not that it failed.
+          if (level && f.severity != Severity::Note) f.severity = level->level;
+          if (f.fingerprint.empty()) f.fingerprint = findingFingerprint(f);
+        }
+        perRule[r] = std::move(ruleSink.findings());
+      },
+      /*grain=*/1);
+  CollectingSink sink;
+  for (auto &findings : perRule)
+    for (Finding &f : findings) sink.report(std::move(f));
   return std::move(sink.findings());
 }
 

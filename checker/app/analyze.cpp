@@ -1,5 +1,6 @@
 #include "checker/app/analyze.h"
 
+#include "checker/core/parallel.h"
 #include "checker/model/part_resolution.h"
 
 #include <cstdlib>
@@ -15,9 +16,10 @@ DesignReport analyzeDesign(const LoadedDesign &design, const Project &project,
   report.parts = &design.parts;
   report.loops = extractGateLoops(design.circuit, design.parts);
   const Layout *layout = design.layout ? &*design.layout : nullptr;
-  report.analyses.reserve(report.loops.size());
-  for (const auto &loop : report.loops)
-    report.analyses.push_back(analyzeLoop(loop, design.circuit, design.parts, layout, design.spec.operating));
+  report.analyses.resize(report.loops.size());
+  parallelFor(report.loops.size(), [&](std::size_t i) {
+    report.analyses[i] = analyzeLoop(report.loops[i], design.circuit, design.parts, layout, design.spec.operating);
+  });
 
   report.componentCount = 0;
   for (const auto &c : design.circuit.components()) {

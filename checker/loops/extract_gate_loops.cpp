@@ -1,11 +1,12 @@
 #include "checker/loops/gate_loop.h"
 
+#include "checker/core/parallel.h"
+
 #include <boost/graph/adjacency_list.hpp>
 
 #include <algorithm>
 #include <span>
 #include <unordered_map>
-#include <unordered_set>
 
 namespace gateloop {
 
@@ -79,16 +80,22 @@ public:
     }
   }
 
+  const std::vector<DriverOutput> *driverOutputsAt(NetId n) const {
+    if (outputListOf_.empty() || outputListOf_[n] == 0) return nullptr;
+    return &outputLists_[outputListOf_[n] - 1];
+  }
+
   /// The pins on net \p n.
   std::span<const PinRef> pinsOnNet(NetId n) const {
     return {pinRefs_.data() + pinStart_[n], pinStart_[n + 1] - pinStart_[n]};
   }
 
-  std::vector<GateLoop> run() {
-    std::vector<GateLoop> loops;
-    const auto &comps = circuit_.components();
-    for (ComponentId id = 0; id < comps.size(); ++id)
-      if (roles_[id] == LoopRole::Switch) loops.push_back(buildLoop(id));
+  std::vector<GateLoop> run() const {
+    std::vector<ComponentId> switches;
+    for (ComponentId id = 0; id < roles_.size(); ++id)
+      if (roles_[id] == LoopRole::Switch) switches.push_back(id);
+    std::vector<GateLoop> loops(switches.size());
+    parallelFor(switches.size(), [&](std::size_t i) { loops[i] = buildLoop(switches[i]); });
     pairHalfBridges(loops);
     return loops;
   }
@@ -102,11 +109,17 @@ private:
       auto it = part.pins.find(role);
       if (it == part.pins.end()) continue;
       NetId n = circuit_.pinNet(c, it->second);
-      if (n != kNone) driverOutputs_[n].push_back({id, it->second, kind});
+      if (n == kNone) continue;
+      if (outputListOf_.empty()) outputListOf_.assign(circuit_.nets().size(), 0);
+      if (outputListOf_[n] == 0) {
+        outputLists_.emplace_back();
+        outputListOf_[n] = static_cast<std::uint32_t>(outputLists_.size());
+      }
+      outputLists_[outputListOf_[n] - 1].push_back({id, it->second, kind});
     }
   }
 
-  GateLoop buildLoop(ComponentId id) {
+  GateLoop buildLoop(ComponentId id) const {
     const Component &sw = circuit_.component(id);
     const Part &part = lib_.parts[sw.part];
     GateLoop loop;
@@ -142,17 +155,16 @@ private:
 
   // Depth-first enumeration of simple paths from the gate through series elements to any net that
   // holds a driver output pin.
-  void walkPaths(GateLoop &loop) {
+  void walkPaths(GateLoop &loop) const {
     std::vector<ComponentId> elements;
     std::vector<NetId> nets{loop.gateNet};
-    std::unordered_set<NetId> onPath{loop.gateNet};
     // A driver output wired straight to the gate is a path with no series element.
     recordPathsAt(loop, loop.gateNet, elements, nets);
-    dfs(loop, loop.gateNet, elements, nets, onPath);
+    dfs(loop, loop.gateNet, elements, nets);
   }
 
-  void dfs(GateLoop &loop, NetId at, std::vector<ComponentId> &elements, std::vector<NetId> &nets,
-           std::unordered_set<NetId> &onPath) {
+  // The path is at most kMaxPathElements long, so looking for a net on it is a short scan.
+  void dfs(GateLoop &loop, NetId at, std::vector<ComponentId> &elements, std::vector<NetId> &nets) const {
     if (elements.size() >= kMaxPathElements) return;
     for (auto [e, end] = boost::out_edges(at, graph_); e != end; ++e) {
       if (loop.paths.size() >= kMaxPathsPerSwitch) {
@@ -161,27 +173,25 @@ private:
       }
       NetId next = static_cast<NetId>(boost::target(*e, graph_));
       ComponentId comp = graph_[*e].component;
-      if (onPath.count(next) || isTerminalNet(loop, next)) continue;
+      if (std::find(nets.begin(), nets.end(), next) != nets.end() || isTerminalNet(loop, next)) continue;
       if (std::find(elements.begin(), elements.end(), comp) != elements.end()) continue;
       elements.push_back(comp);
       nets.push_back(next);
-      onPath.insert(next);
-      if (driverOutputs_.count(next)) {
+      if (driverOutputsAt(next)) {
         recordPathsAt(loop, next, elements, nets);
       } else {
-        dfs(loop, next, elements, nets, onPath);
+        dfs(loop, next, elements, nets);
       }
-      onPath.erase(next);
       nets.pop_back();
       elements.pop_back();
     }
   }
 
   void recordPathsAt(GateLoop &loop, NetId driverNet, const std::vector<ComponentId> &gateToDriver,
-                     const std::vector<NetId> &netsGateToDriver) {
-    auto it = driverOutputs_.find(driverNet);
-    if (it == driverOutputs_.end()) return;
-    for (const DriverOutput &out : it->second) {
+                     const std::vector<NetId> &netsGateToDriver) const {
+    const std::vector<DriverOutput> *outputs = driverOutputsAt(driverNet);
+    if (!outputs) return;
+    for (const DriverOutput &out : *outputs) {
       GatePath path;
       path.driver = out.driver;
       path.driverPin = out.pin;
@@ -222,42 +232,55 @@ private:
     return n != kNone ? n : circuit_.pins(c)[0];
   }
 
-  void collectShunts(GateLoop &loop) {
+  void collectShunts(GateLoop &loop) const {
     if (loop.refNet == kNone) return;
-    // The gate side: the gate net and every net between it and the driver outputs.
-    std::unordered_set<NetId> gateSide{loop.gateNet};
+    // The gate side: the gate net and every net between it and the driver outputs (at most
+    // kMaxPathsPerSwitch paths of kMaxPathElements nets, so a scan finds repeats).
+    std::vector<NetId> gateSide{loop.gateNet};
+    auto onGateSide = [&](NetId n) { return std::find(gateSide.begin(), gateSide.end(), n) != gateSide.end(); };
     for (const auto &p : loop.paths)
-      for (std::size_t i = 1; i < p.nets.size(); ++i) gateSide.insert(p.nets[i]);
-    std::unordered_set<ComponentId> seen;
-    for (NetId g : gateSide) {
-      for (const PinRef &pr : pinsOnNet(g)) {
-        if (!seen.insert(pr.component).second) continue;
-        const Component &c = circuit_.component(pr.component);
-        LoopRole role = roles_[pr.component];
-        if (role == LoopRole::Driver) {
-          addDriverClamp(loop, pr.component, c, g);
-          continue;
-        }
-        auto pins = circuit_.pins(c);
-        if (pins.size() != 2) continue;
-        NetId other = pins[pr.pin == 0 ? 1 : 0];
-        if (other == loop.refNet) {
-          addDirectShunt(loop, pr.component, c, role, g);
-        } else if ((role == LoopRole::Zener || role == LoopRole::Tvs) && !gateSide.count(other)) {
-          addSeriesClampPair(loop, pr.component, other);
-        }
+      for (std::size_t i = 1; i < p.nets.size(); ++i)
+        if (!onGateSide(p.nets[i])) gateSide.push_back(p.nets[i]);
+    // Each component once, where it is first met; a gate-side net may be large in a broken
+    // netlist, so repeats are found by sorting rather than by scanning.
+    std::vector<std::pair<PinRef, NetId>> met;
+    for (NetId g : gateSide)
+      for (const PinRef &pr : pinsOnNet(g)) met.push_back({pr, g});
+    std::vector<std::uint32_t> byComponent(met.size());
+    for (std::uint32_t k = 0; k < byComponent.size(); ++k) byComponent[k] = k;
+    std::stable_sort(byComponent.begin(), byComponent.end(),
+                     [&](std::uint32_t a, std::uint32_t b) { return met[a].first.component < met[b].first.component; });
+    std::vector<bool> repeat(met.size(), false);
+    for (std::size_t k = 1; k < byComponent.size(); ++k)
+      if (met[byComponent[k]].first.component == met[byComponent[k - 1]].first.component) repeat[byComponent[k]] = true;
+    for (std::size_t k = 0; k < met.size(); ++k) {
+      if (repeat[k]) continue;
+      const auto &[pr, g] = met[k];
+      const Component &c = circuit_.component(pr.component);
+      LoopRole role = roles_[pr.component];
+      if (role == LoopRole::Driver) {
+        addDriverClamp(loop, pr.component, c, g);
+        continue;
+      }
+      auto pins = circuit_.pins(c);
+      if (pins.size() != 2) continue;
+      NetId other = pins[pr.pin == 0 ? 1 : 0];
+      if (other == loop.refNet) {
+        addDirectShunt(loop, pr.component, c, role, g);
+      } else if ((role == LoopRole::Zener || role == LoopRole::Tvs) && !onGateSide(other)) {
+        addSeriesClampPair(loop, pr.component, other);
       }
     }
   }
 
-  void addDriverClamp(GateLoop &loop, ComponentId id, const Component &c, NetId gateSideNet) {
+  void addDriverClamp(GateLoop &loop, ComponentId id, const Component &c, NetId gateSideNet) const {
     const Part &part = lib_.parts[c.part];
     auto it = part.pins.find("clamp");
     if (it == part.pins.end()) return;
     if (circuit_.pinNet(c, it->second) == gateSideNet) loop.shunts.push_back({ShuntKind::DriverClamp, {id}, true});
   }
 
-  void addDirectShunt(GateLoop &loop, ComponentId id, const Component &c, LoopRole role, NetId gateSideNet) {
+  void addDirectShunt(GateLoop &loop, ComponentId id, const Component &c, LoopRole role, NetId gateSideNet) const {
     switch (role) {
     case LoopRole::Resistor: loop.shunts.push_back({ShuntKind::PullDown, {id}, true}); break;
     case LoopRole::Capacitor: loop.shunts.push_back({ShuntKind::Capacitor, {id}, true}); break;
@@ -277,7 +300,7 @@ private:
   }
 
   // Back-to-back Zeners: gate -> Z1 -> mid -> Z2 -> reference, with nothing else on mid.
-  void addSeriesClampPair(GateLoop &loop, ComponentId first, NetId mid) {
+  void addSeriesClampPair(GateLoop &loop, ComponentId first, NetId mid) const {
     auto onMid = pinsOnNet(mid);
     if (onMid.size() != 2) return;
     const PinRef &second = onMid[0].component == first ? onMid[1] : onMid[0];
@@ -290,7 +313,7 @@ private:
     loop.shunts.push_back({ShuntKind::ClampPair, {first, second.component}, true});
   }
 
-  void classifyDriverReference(GateLoop &loop) {
+  void classifyDriverReference(GateLoop &loop) const {
     const Component &drv = circuit_.component(loop.driver);
     const Part &part = lib_.parts[drv.part];
     loop.driverRefNet = rolePinNet(circuit_, drv, part, "ref");
@@ -321,7 +344,9 @@ private:
   std::vector<std::uint32_t> pinStart_;  ///< net n's pins are pinRefs_[pinStart_[n] .. pinStart_[n+1])
   std::vector<PinRef> pinRefs_;
   std::vector<LoopRole> roles_;
-  std::unordered_map<NetId, std::vector<DriverOutput>> driverOutputs_;
+  // Driver output pins by net, as a flat per-net index: the path walk asks at every net it reaches.
+  std::vector<std::uint32_t> outputListOf_;            ///< per net: 1 + index into outputLists_, 0 = none
+  std::vector<std::vector<DriverOutput>> outputLists_;
 };
 
 } // namespace

@@ -26,7 +26,7 @@ const Part *partOf(const Circuit &circuit, const PartLibrary &lib, ComponentId i
 struct PathNumbers {
   std::optional<Ohm> resistance;   ///< sum of series resistances; empty when one is unknown
   Henry inductance;                ///< series L, ferrite L and resistor ESL
-  NetsInductance layout;
+  Henry layoutInductance;          ///< of the path's own nets from the sidecar
 };
 
 class LoopCalculator {
@@ -112,10 +112,11 @@ private:
 
   // A path that carries both edges is computed once: with drawn traces its layout inductance is
   // a partial-element sum over every pair of segments.
-  const PathNumbers &cachedPathNumbers(const GatePath &path) {
-    auto it = pathCache_.find(&path);
-    if (it == pathCache_.end()) it = pathCache_.emplace(&path, pathNumbers(path)).first;
-    return it->second;
+  const PathNumbers &cachedPathNumbers(std::size_t pathIndex) {
+    if (pathCache_.empty()) pathCache_.resize(loop_.paths.size());
+    auto &slot = pathCache_[pathIndex];
+    if (!slot) slot = pathNumbers(loop_.paths[pathIndex]);
+    return *slot;
   }
 
   PathNumbers pathNumbers(const GatePath &path) {
@@ -142,30 +143,33 @@ private:
       }
     }
     if (known) pn.resistance = Ohm(r);
-    pn.layout = layoutInductance(path.nets, loop_.refNet, circuit_, layout_, op_);
+    // The loop's notes on layout data come from loopLength(); here only the number is needed.
+    if (layout_) pn.layoutInductance = layoutInductance(path.nets, loop_.refNet, circuit_, layout_, op_).inductance;
     return pn;
   }
 
   void edge(bool on, EdgeAnalysis &e) {
-    std::vector<std::pair<const GatePath *, PathNumbers>> paths;
-    for (const auto &p : loop_.paths)
-      if (on ? p.conductsOn : p.conductsOff) paths.emplace_back(&p, cachedPathNumbers(p));
+    std::vector<std::pair<const GatePath *, const PathNumbers *>> paths;
+    for (std::size_t i = 0; i < loop_.paths.size(); ++i) {
+      const GatePath &p = loop_.paths[i];
+      if (on ? p.conductsOn : p.conductsOff) paths.emplace_back(&p, &cachedPathNumbers(i));
+    }
     e.hasPath = !paths.empty();
     if (!e.hasPath) return;
 
-    std::set<ComponentId> resistors;
     double conductance = 0.0;
     bool resistanceKnown = true;
     Henry lMax(0.0);
     for (const auto &[path, pn] : paths) {
       for (ComponentId id : path->elements)
-        if (loopRole(circuit_.component(id), lib_) == LoopRole::Resistor) resistors.insert(id);
-      if (!pn.resistance) resistanceKnown = false;
-      else conductance += pn.resistance->si() > 0 ? 1.0 / pn.resistance->si() : std::numeric_limits<double>::infinity();
+        if (loopRole(circuit_.component(id), lib_) == LoopRole::Resistor) e.resistors.push_back(id);
+      if (!pn->resistance) resistanceKnown = false;
+      else conductance += pn->resistance->si() > 0 ? 1.0 / pn->resistance->si() : std::numeric_limits<double>::infinity();
       // The largest path inductance is the conservative one for damping.
-      lMax = std::max(lMax, pn.inductance + pn.layout.inductance);
+      lMax = std::max(lMax, pn->inductance + pn->layoutInductance);
     }
-    e.resistors.assign(resistors.begin(), resistors.end());
+    std::sort(e.resistors.begin(), e.resistors.end());
+    e.resistors.erase(std::unique(e.resistors.begin(), e.resistors.end()), e.resistors.end());
     if (resistanceKnown) e.rExternal = Ohm(std::isinf(conductance) ? 0.0 : 1.0 / conductance);
     e.lLoop = lMax + a_.lFixed;
 
@@ -205,15 +209,15 @@ private:
     else note(missing_, "switching frequency operating.f_sw");
 
     for (const auto &[path, pn] : paths) {
-      if (!pn.resistance || pn.resistance->si() <= 0.0) continue;
-      double pathShare = e.rExternal->si() / pn.resistance->si(); // current fraction in this path
+      if (!pn->resistance || pn->resistance->si() <= 0.0) continue;
+      double pathShare = e.rExternal->si() / pn->resistance->si(); // current fraction in this path
       for (ComponentId id : path->elements) {
         const Component &c = circuit_.component(id);
         if (loopRole(c, lib_) != LoopRole::Resistor || !c.hasValue()) continue;
         ResistorLoad load;
         load.id = id;
         load.resistance = Ohm(c.value);
-        load.energyPerPulse = Joule(eExternal.si() * pathShare * c.value / pn.resistance->si());
+        load.energyPerPulse = Joule(eExternal.si() * pathShare * c.value / pn->resistance->si());
         load.peakCurrent = Ampere(e.iPeak->si() * pathShare);
         load.peakPower = resistorPeakPower(load.peakCurrent, load.resistance);
         load.pulseWidth = *e.tPulse;
@@ -227,17 +231,33 @@ private:
   // A resistor on both the on and the off path sees two pulses per period; its average power is
   // the sum of both edges (physics.md 3.1, shared resistor).
   void shareResistorsAcrossEdges() {
-    std::map<ComponentId, double> onPower, offPower;
-    for (const auto &l : a_.on.loads) onPower[l.id] += l.averagePower.si();
-    for (const auto &l : a_.off.loads) offPower[l.id] += l.averagePower.si();
+    // A loop has a handful of resistors: sums by scanning, no map.
+    auto powerOn = [](const std::vector<ResistorLoad> &loads, ComponentId id, bool &found) {
+      double sum = 0.0;
+      for (const auto &l : loads)
+        if (l.id == id) {
+          sum += l.averagePower.si();
+          found = true;
+        }
+      return sum;
+    };
+    std::vector<double> total;
+    for (EdgeAnalysis *e : {&a_.on, &a_.off})
+      for (auto &l : e->loads) {
+        bool onOn = false, onOff = false;
+        double sum = powerOn(a_.on.loads, l.id, onOn) + powerOn(a_.off.loads, l.id, onOff);
+        total.push_back(onOn && onOff ? sum : -1.0);
+      }
+    std::size_t k = 0;
     for (EdgeAnalysis *e : {&a_.on, &a_.off}) {
       for (auto &l : e->loads) {
-        bool shared = onPower.count(l.id) && offPower.count(l.id);
+        bool shared = total[k] >= 0.0;
         l.sharedByBothEdges = shared;
         if (shared) {
-          l.averagePower = Watt(onPower[l.id] + offPower[l.id]);
+          l.averagePower = Watt(total[k]);
           l.pulseRate = l.pulseRate * 2.0;
         }
+        ++k;
         ratings(l);
       }
     }
@@ -272,7 +292,7 @@ private:
   const Part *drv_;
   LoopAnalysis a_;
   std::set<std::string> assumptions_, missing_;
-  std::map<const GatePath *, PathNumbers> pathCache_;
+  std::vector<std::optional<PathNumbers>> pathCache_; ///< parallel to loop_.paths
 };
 
 } // namespace

@@ -225,6 +225,7 @@ public:
   /// Interns a string (model names, part hints); equal strings give equal ids.
   StringId intern(std::string_view s);
   std::string_view str(StringId id) const { return strings_[id]; }
+  std::size_t stringCount() const { return strings_.size(); }
 
   /// Interns a pin-name list; identical lists share one id.
   std::uint32_t internPinNames(const std::vector<std::string> &names);

@@ -117,6 +117,8 @@ void resolveParts(Circuit &circuit, const PartLibrary &lib,
   }
 
   std::unordered_map<std::string, int> hintCache;
+  constexpr std::uint32_t kUnlooked = kNone - 1;
+  std::vector<std::uint32_t> modelPartOf, subcktPartOf; // by model StringId
   auto &components = circuit.components();
   for (auto &c : components) {
     c.part = kNone;
@@ -137,10 +139,17 @@ void resolveParts(Circuit &circuit, const PartLibrary &lib,
       break; // first matching pattern decides, even when its part id was unknown
     }
     if (c.partHint == 0 && c.part == kNone && c.model != 0) {
-      std::string model = toLower(circuit.str(c.model));
-      auto &map = c.kind == ElementKind::Subcircuit ? bySubckt : byModel;
-      if (auto it = map.find(model); it != map.end()) {
-        c.part = it->second;
+      // Decks name a few models millions of times: look each (model, kind) up once.
+      const bool subckt = c.kind == ElementKind::Subcircuit;
+      auto &cache = subckt ? subcktPartOf : modelPartOf;
+      if (cache.size() <= c.model) cache.resize(circuit.stringCount(), kUnlooked);
+      if (cache[c.model] == kUnlooked) {
+        auto &map = subckt ? bySubckt : byModel;
+        auto it = map.find(toLower(circuit.str(c.model)));
+        cache[c.model] = it == map.end() ? kNone : it->second;
+      }
+      if (cache[c.model] != kNone) {
+        c.part = cache[c.model];
         viaMatch = true;
       }
     }

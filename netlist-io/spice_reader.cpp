@@ -476,11 +476,28 @@ private:
   std::size_t nameBucketMask_ = 0;
   void markTopName(std::string_view name) {
     if (namesSeen_.empty()) return;
+    // The bit sets are bigger than the core's cache: each bucket's word is fetched a few names
+    // ahead of its use, so the wait for memory overlaps the work on the next cards.
     const std::size_t b = hashIgnoreCase(name) & nameBucketMask_;
+    __builtin_prefetch(&namesSeen_[b >> 6], 1);
+    const std::size_t slot = pendingNames_++ % kNameLookahead;
+    if (pendingNames_ > kNameLookahead) markBucket(pendingBuckets_[slot]);
+    pendingBuckets_[slot] = b;
+  }
+  void flushTopNames() {
+    const std::size_t n = std::min(pendingNames_, kNameLookahead);
+    for (std::size_t k = 0; k < n; ++k) markBucket(pendingBuckets_[(pendingNames_ - n + k) % kNameLookahead]);
+    pendingNames_ = 0;
+  }
+  void markBucket(std::size_t b) {
     const std::uint64_t bit = std::uint64_t{1} << (b & 63);
     if (namesSeen_[b >> 6] & bit) namesShared_[b >> 6] |= bit;
     else namesSeen_[b >> 6] |= bit;
   }
+  static constexpr std::size_t kNameLookahead = 8;
+  std::size_t pendingBuckets_[kNameLookahead] = {};
+  std::size_t pendingNames_ = 0;
+
   /// Text of the file whose top-level cards are being built: the circuit keeps it, so names
   /// read verbatim from it are handed on without a copy.
   std::string_view scanning_;
@@ -1866,6 +1883,7 @@ void SpiceDeckReader::build() {
     }
   }
   scanning_ = {};
+  flushTopNames();
   if (!stop_) reportDuplicateNames(firstTopComponent);
 }
 

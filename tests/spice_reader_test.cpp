@@ -126,6 +126,25 @@ TEST(SpiceReader, TitleCommentsContinuationCase) {
   EXPECT_EQ(p->files.name(p->comp("R1").where.file), "deck.cir");
 }
 
+TEST(SpiceReader, DuplicateNamesFarApartAndAtTheEndOfABigDeck) {
+  // Duplicates are found through hash buckets filled a few names behind the reader; pairs far
+  // apart, adjacent, and among the last cards of the deck must all be reported, in deck order.
+  std::string deck = "t\n";
+  for (int i = 0; i < 5000; ++i) deck += "R" + std::to_string(i) + " n" + std::to_string(i) + " 0 1k\n";
+  deck += "r3 a 0 1\n";      // line 5002, duplicates R3 (line 5)
+  deck += "C7 a 0 1p\nc7 b 0 1p\n"; // lines 5003-5004
+  auto p = parseText(deck);
+  EXPECT_FALSE(p->ok);
+  EXPECT_EQ(p->errors(), (std::vector<std::string>{
+                             "deck.cir:5002:1: error: duplicate element name r3 (first at deck.cir:5:1)",
+                             "deck.cir:5004:1: error: duplicate element name c7 (first at deck.cir:5003:1)"}));
+  // Every net of the deck is found again, whatever its case.
+  EXPECT_EQ(p->circuit.nets().size(), 5003u); // n0..n4999, ground, a, b
+  for (int i = 0; i < 5000; i += 499) EXPECT_NE(p->circuit.findNet("N" + std::to_string(i)), kNone) << i;
+  EXPECT_EQ(p->circuit.findNet("GND"), p->circuit.findNet("0"));
+  EXPECT_EQ(p->circuit.findNet("n5000"), kNone);
+}
+
 TEST(SpiceReader, CrLfAndBom) {
   auto p = parseText("\xEF\xBB\xBFtitle\r\nR1 a b 10\r\n+ \r\nC1 a b 1u\r\n.end\r\n");
   ASSERT_TRUE(p->ok) << joined(p->errors());

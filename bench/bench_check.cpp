@@ -7,6 +7,7 @@
 /// Without DECK, gen_deck (beside this program) writes a flat deck of about one million lines.
 #include "checker/app/analyze.h"
 #include "checker/app/run_inputs.h"
+#include "checker/core/parallel.h"
 #include "netlist-io/spice_reader.h"
 
 #include <sys/resource.h>
@@ -89,6 +90,8 @@ int main(int argc, char **argv) {
   timeWc(deck); // warm the page cache
 
   std::vector<double> parseTimes, checkTimes, wcTimes;
+  StageSeconds bestStages;
+  double bestInputs = 0;
   std::size_t loops = 0, findings = 0, elements = 0;
   for (int r = 0; r < repeat; ++r) {
     {
@@ -112,8 +115,14 @@ int main(int argc, char **argv) {
         for (const auto &d : run.diags.items()) std::fprintf(stderr, "%s\n", formatDiagnostic(d, run.files).c_str());
         return 1;
       }
-      DesignReport report = analyzeDesign(*run.designs.front(), run.project, {}, "2026-01-01");
+      auto t1 = std::chrono::steady_clock::now();
+      StageSeconds stages;
+      DesignReport report = analyzeDesign(*run.designs.front(), run.project, {}, "2026-01-01", &stages);
       checkTimes.push_back(seconds(std::chrono::steady_clock::now() - t0));
+      if (checkTimes.back() <= *std::min_element(checkTimes.begin(), checkTimes.end())) {
+        bestStages = stages;
+        bestInputs = seconds(t1 - t0);
+      }
       loops = report.loops.size();
       findings = report.findings.size();
     }
@@ -127,6 +136,10 @@ int main(int argc, char **argv) {
   std::printf("gate loops        %zu, findings %zu\n", loops, findings);
   std::printf("parse only        best %.3f s of %d runs\n", parse, repeat);
   std::printf("full check        best %.3f s (parse + parts + loops + physics + rules)\n", check);
+  std::printf("  stages          inputs (parse, parts) %.3f s, extraction %.3f s, physics %.3f s,\n"
+              "                  census %.3f s, rules %.3f s; %zu worker threads\n",
+              bestInputs, bestStages.extraction, bestStages.physics, bestStages.census, bestStages.rules,
+              workerThreads());
   std::printf("check / parse     %.2f (target <= 2)\n", check / parse);
   std::printf("per loop          %.2f us beyond parsing\n", loops ? (check - parse) / loops * 1e6 : 0.0);
   std::printf("wc -l             best %.3f s; check / wc -l = %.1f\n", wc, check / wc);

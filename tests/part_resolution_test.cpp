@@ -197,6 +197,19 @@ TEST_F(PartResolution, KindMismatchWarns) {
   EXPECT_EQ(partOf("C1"), "RES-0603-TF"); // still assigned: the user said so
 }
 
+TEST_F(PartResolution, DriverPartsMayStandOnSourcesButNotOnPassives) {
+  // A simulation deck's driver is often a pulse, controlled or behavioural source.
+  add("VDRV1", ElementKind::VoltageSource);
+  add("EDRV2", ElementKind::ControlledSource);
+  add("BDRV3", ElementKind::BehavioralSource);
+  add("RDRV4", ElementKind::Resistor);
+  resolve({{"?DRV*", "DRV-ISO-4A"}});
+  ASSERT_EQ(messages_.size(), 1u) << ::testing::PrintToString(messages_);
+  EXPECT_EQ(messages_[0], "board.xml:4:1: warning: part \"DRV-ISO-4A\" is a driver but RDRV4 is a resistor element");
+  EXPECT_EQ(partOf("VDRV1"), "DRV-ISO-4A");
+  EXPECT_EQ(partOf("BDRV3"), "DRV-ISO-4A");
+}
+
 TEST_F(PartResolution, SameMatchNameInTwoPartsWarns) {
   lib_.parts.push_back(makePart("NMOS-650-B", PartKind::Mosfet));
   lib_.parts.back().matchModel = {"NCH650"};

@@ -3,23 +3,34 @@
 #include "checker/core/parallel.h"
 #include "checker/model/part_resolution.h"
 
+#include <chrono>
 #include <cstdlib>
 #include <ctime>
 
 namespace gateloop {
 
 DesignReport analyzeDesign(const LoadedDesign &design, const Project &project,
-                           const std::map<std::string, SeverityOverride> &overrides, const std::string &today) {
+                           const std::map<std::string, SeverityOverride> &overrides, const std::string &today,
+                           StageSeconds *seconds) {
+  using Clock = std::chrono::steady_clock;
+  auto mark = Clock::now();
+  auto lap = [&](double StageSeconds::*stage) {
+    auto now = Clock::now();
+    if (seconds) seconds->*stage = std::chrono::duration<double>(now - mark).count();
+    mark = now;
+  };
   DesignReport report;
   report.name = design.spec.name;
   report.circuit = &design.circuit;
   report.parts = &design.parts;
   report.loops = extractGateLoops(design.circuit, design.parts);
+  lap(&StageSeconds::extraction);
   const Layout *layout = design.layout ? &*design.layout : nullptr;
   report.analyses.resize(report.loops.size());
   parallelFor(report.loops.size(), [&](std::size_t i) {
     report.analyses[i] = analyzeLoop(report.loops[i], design.circuit, design.parts, layout, design.spec.operating);
   });
+  lap(&StageSeconds::physics);
 
   report.componentCount = 0;
   for (const auto &c : design.circuit.components()) {
@@ -30,11 +41,13 @@ DesignReport analyzeDesign(const LoadedDesign &design, const Project &project,
     if (role == LoopRole::Driver) ++report.driverCount;
   }
   report.netCount = design.circuit.nets().size();
+  lap(&StageSeconds::census);
 
   DesignContext ctx{report.name, design.circuit, design.parts, layout, design.spec.operating,
                     report.loops, report.analyses, design.netlistFile};
   report.findings = runRules(ctx, project.ruleParams, overrides);
   sortFindings(report.findings);
+  lap(&StageSeconds::rules);
   return report;
 }
 

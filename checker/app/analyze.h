@@ -12,9 +12,15 @@
 
 namespace gateloop {
 
+/// Wall-clock seconds of each stage of analyzeDesign, for the benchmark (bench/bench_check).
+struct StageSeconds {
+  double extraction = 0, physics = 0, census = 0, rules = 0;
+};
+
 /// Analyses one design and runs every enabled rule on it.
 DesignReport analyzeDesign(const LoadedDesign &design, const Project &project,
-                           const std::map<std::string, SeverityOverride> &overrides, const std::string &today);
+                           const std::map<std::string, SeverityOverride> &overrides, const std::string &today,
+                           StageSeconds *seconds = nullptr);
 
 /// Marks findings matched by an unexpired waiver; an expired waiver is reported as a warning
 /// finding and no longer waives; a waiver that matches nothing becomes a note.

@@ -2,7 +2,7 @@
 
 #include "checker/core/parallel.h"
 
-#include <boost/graph/adjacency_list.hpp>
+#include <boost/graph/compressed_sparse_row_graph.hpp>
 
 #include <algorithm>
 #include <span>
@@ -21,9 +21,11 @@ struct SeriesEdge {
   ComponentId component = kNone;
 };
 
-// Nets are vertices, two-pin series-capable elements (R, L, ferrite, diode) are edges.
-using SeriesGraph = boost::adjacency_list<boost::vecS, boost::vecS, boost::undirectedS,
-                                          boost::no_property, SeriesEdge>;
+// Nets are vertices, two-pin series-capable elements (R, L, ferrite, diode) are edges, stored
+// once in each direction. A compressed-sparse-row graph is built in one go from the edge list:
+// no allocation per net, and a net's edges lie together in memory for the path walk.
+using SeriesGraph = boost::compressed_sparse_row_graph<boost::directedS, boost::no_property, SeriesEdge,
+                                                      boost::no_property, NetId, std::uint32_t>;
 
 struct PinRef {
   ComponentId component;
@@ -54,8 +56,10 @@ bool visible(const Component &c, const PartLibrary &lib) {
 class Extractor {
 public:
   Extractor(const Circuit &circuit, const PartLibrary &lib)
-      : circuit_(circuit), lib_(lib), graph_(circuit.nets().size()) {
+      : circuit_(circuit), lib_(lib) {
     const auto &comps = circuit_.components();
+    std::vector<std::pair<NetId, NetId>> edges;
+    std::vector<SeriesEdge> edgeComponents;
     roles_.resize(comps.size(), LoopRole::Other);
     // Pins by net in one flat array (counted, then filled): a vector per net would cost one
     // allocation for each of a large deck's hundreds of thousands of nets.
@@ -66,10 +70,16 @@ public:
       roles_[id] = loopRole(c, lib_);
       for (NetId n : circuit_.pins(c)) ++pinStart_[n + 1];
       auto pins = circuit_.pins(c);
-      if (isSeriesRole(roles_[id]) && pins.size() == 2 && pins[0] != pins[1])
-        boost::add_edge(pins[0], pins[1], SeriesEdge{id}, graph_);
+      if (isSeriesRole(roles_[id]) && pins.size() == 2 && pins[0] != pins[1]) {
+        edges.emplace_back(pins[0], pins[1]);
+        edges.emplace_back(pins[1], pins[0]);
+        edgeComponents.push_back({id});
+        edgeComponents.push_back({id});
+      }
       if (roles_[id] == LoopRole::Driver) indexDriverOutputs(id, c);
     }
+    graph_ = SeriesGraph(boost::edges_are_unsorted_multi_pass, edges.begin(), edges.end(), edgeComponents.begin(),
+                         circuit_.nets().size());
     for (std::size_t n = 1; n < pinStart_.size(); ++n) pinStart_[n] += pinStart_[n - 1];
     pinRefs_.resize(pinStart_.back());
     std::vector<std::uint32_t> fill(pinStart_.begin(), pinStart_.end() - 1);

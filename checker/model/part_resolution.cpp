@@ -62,6 +62,11 @@ bool compatible(ElementKind element, PartKind part) {
   case ElementKind::Subcircuit:
   case ElementKind::Generic:
   case ElementKind::Switch: return true;
+  // Simulation decks often stand a gate driver in by a pulse source (V), a controlled source
+  // (E, F, G, H) or a behavioural source (B).
+  case ElementKind::VoltageSource:
+  case ElementKind::ControlledSource:
+  case ElementKind::BehavioralSource: return part == PartKind::Driver;
   default: return false;
   }
 }

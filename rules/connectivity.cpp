@@ -5,7 +5,7 @@
 
 #include <fmt/format.h>
 
-#include <set>
+#include <algorithm>
 
 namespace gateloop {
 
@@ -23,16 +23,30 @@ public:
   }
 
   void check(const DesignContext &design, const RuleOptions &, FindingSink &sink) const override {
-    std::set<std::pair<ComponentId, std::string>> usedOutputs;
+    UsedOutputs usedOutputs;
     for (const GateLoop &loop : design.loops) {
-      for (const GatePath &p : loop.paths) usedOutputs.insert({p.driver, toLower(p.driverPin)});
+      for (const GatePath &p : loop.paths)
+        if (usedOutputs.empty() || usedOutputs.back().first != p.driver ||
+            !equalsIgnoreCase(usedOutputs.back().second, p.driverPin))
+          usedOutputs.emplace_back(p.driver, p.driverPin);
       checkLoop(design, loop, sink);
     }
+    std::sort(usedOutputs.begin(), usedOutputs.end(),
+              [](const auto &a, const auto &b) { return a.first < b.first; });
     checkDriverOutputs(design, usedOutputs, sink);
     checkUnassignedTransistors(design, sink);
   }
 
 private:
+  /// (driver, output pin name as the path names it), sorted by driver.
+  using UsedOutputs = std::vector<std::pair<ComponentId, std::string_view>>;
+
+  static bool isUsed(const UsedOutputs &used, ComponentId driver, std::string_view pin) {
+    auto [from, to] = std::equal_range(used.begin(), used.end(), std::pair<ComponentId, std::string_view>{driver, {}},
+                                       [](const auto &a, const auto &b) { return a.first < b.first; });
+    return std::any_of(from, to, [&](const auto &u) { return equalsIgnoreCase(u.second, pin); });
+  }
+
   void checkLoop(const DesignContext &design, const GateLoop &loop, FindingSink &sink) const {
     if (loop.gateNet == kNone) {
       Finding f = makeLoopFinding(info(), Severity::Error, design, loop, {loop.switchId},
@@ -66,8 +80,7 @@ private:
     }
   }
 
-  void checkDriverOutputs(const DesignContext &design, const std::set<std::pair<ComponentId, std::string>> &used,
-                          FindingSink &sink) const {
+  void checkDriverOutputs(const DesignContext &design, const UsedOutputs &used, FindingSink &sink) const {
     const Circuit &c = design.circuit;
     std::vector<std::uint32_t> pinsOnNet(c.nets().size(), 0);
     for (const Component &comp : c.components()) {
@@ -80,7 +93,7 @@ private:
       const Part &part = *design.partOf(id);
       for (const char *role : {"out_source", "out_sink", "out"}) {
         auto it = part.pins.find(role);
-        if (it == part.pins.end() || used.count({id, toLower(it->second)})) continue;
+        if (it == part.pins.end() || isUsed(used, id, it->second)) continue;
         NetId net = c.pinNet(comp, it->second);
         if (net == kNone || pinsOnNet[net] < 2) continue; // a spare, unconnected output
         Finding f;

@@ -29,15 +29,20 @@ public:
     double k = options.number("k", 5.0);
     double ripple = options.quantity("ripple", Dimension::Voltage, 0.5);
     // One check per driver, sized for the largest gate charge it drives.
-    std::map<ComponentId, std::size_t> worstLoop;
-    for (std::size_t i = 0; i < design.loops.size(); ++i) {
-      const GateLoop &loop = design.loops[i];
-      if (loop.driver == kNone) continue;
-      auto it = worstLoop.find(loop.driver);
-      if (it == worstLoop.end() || charge(design.analyses[i]) > charge(design.analyses[it->second]))
-        worstLoop[loop.driver] = i;
-    }
-    if (worstLoop.empty()) return;
+    // (driver, loop) sorted by driver and, within a driver, largest charge first (earliest loop
+    // on a tie): the first entry of each driver is its worst loop.
+    std::vector<std::pair<ComponentId, std::size_t>> byDriver;
+    for (std::size_t i = 0; i < design.loops.size(); ++i)
+      if (design.loops[i].driver != kNone) byDriver.emplace_back(design.loops[i].driver, i);
+    if (byDriver.empty()) return;
+    std::sort(byDriver.begin(), byDriver.end(), [&](const auto &a, const auto &b) {
+      if (a.first != b.first) return a.first < b.first;
+      double qa = charge(design.analyses[a.second]), qb = charge(design.analyses[b.second]);
+      return qa != qb ? qa > qb : a.second < b.second;
+    });
+    std::vector<std::pair<ComponentId, std::size_t>> worstLoop;
+    for (const auto &entry : byDriver)
+      if (worstLoop.empty() || worstLoop.back().first != entry.first) worstLoop.push_back(entry);
     // Capacitors indexed by the (unordered) pair of nets they bridge, built once per design.
     CapacitorsByNets caps;
     const Circuit &c = design.circuit;

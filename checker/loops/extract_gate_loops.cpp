@@ -143,6 +143,8 @@ private:
     loop.refNet = loop.kelvinConnected ? loop.kelvinNet : loop.emitterNet;
     if (loop.gateNet == kNone) return loop;
 
+    loop.paths.reserve(4);
+    loop.shunts.reserve(4);
     walkPaths(loop);
     collectShunts(loop);
     if (!loop.paths.empty()) {
@@ -166,8 +168,10 @@ private:
   // Depth-first enumeration of simple paths from the gate through series elements to any net that
   // holds a driver output pin.
   void walkPaths(GateLoop &loop) const {
-    std::vector<ComponentId> elements;
-    std::vector<NetId> nets{loop.gateNet};
+    thread_local std::vector<ComponentId> elements;
+    thread_local std::vector<NetId> nets;
+    elements.clear();
+    nets.assign(1, loop.gateNet);
     // A driver output wired straight to the gate is a path with no series element.
     recordPathsAt(loop, loop.gateNet, elements, nets);
     dfs(loop, loop.gateNet, elements, nets);
@@ -246,23 +250,34 @@ private:
     if (loop.refNet == kNone) return;
     // The gate side: the gate net and every net between it and the driver outputs (at most
     // kMaxPathsPerSwitch paths of kMaxPathElements nets, so a scan finds repeats).
-    std::vector<NetId> gateSide{loop.gateNet};
+    thread_local std::vector<NetId> gateSide;
+    gateSide.assign(1, loop.gateNet);
     auto onGateSide = [&](NetId n) { return std::find(gateSide.begin(), gateSide.end(), n) != gateSide.end(); };
     for (const auto &p : loop.paths)
       for (std::size_t i = 1; i < p.nets.size(); ++i)
         if (!onGateSide(p.nets[i])) gateSide.push_back(p.nets[i]);
-    // Each component once, where it is first met; a gate-side net may be large in a broken
-    // netlist, so repeats are found by sorting rather than by scanning.
-    std::vector<std::pair<PinRef, NetId>> met;
+    // Each component once, where it is first met. A gate-side net has a handful of pins; in a
+    // broken netlist it may have thousands, so past a few dozen repeats are found by sorting.
+    thread_local std::vector<std::pair<PinRef, NetId>> met;
+    thread_local std::vector<std::uint32_t> byComponent;
+    thread_local std::vector<char> repeat;
+    met.clear();
     for (NetId g : gateSide)
       for (const PinRef &pr : pinsOnNet(g)) met.push_back({pr, g});
-    std::vector<std::uint32_t> byComponent(met.size());
-    for (std::uint32_t k = 0; k < byComponent.size(); ++k) byComponent[k] = k;
-    std::stable_sort(byComponent.begin(), byComponent.end(),
-                     [&](std::uint32_t a, std::uint32_t b) { return met[a].first.component < met[b].first.component; });
-    std::vector<bool> repeat(met.size(), false);
-    for (std::size_t k = 1; k < byComponent.size(); ++k)
-      if (met[byComponent[k]].first.component == met[byComponent[k - 1]].first.component) repeat[byComponent[k]] = true;
+    repeat.assign(met.size(), 0);
+    if (met.size() <= 32) {
+      for (std::size_t k = 1; k < met.size(); ++k)
+        for (std::size_t j = 0; j < k && !repeat[k]; ++j)
+          repeat[k] = met[j].first.component == met[k].first.component;
+    } else {
+      byComponent.resize(met.size());
+      for (std::uint32_t k = 0; k < byComponent.size(); ++k) byComponent[k] = k;
+      std::stable_sort(byComponent.begin(), byComponent.end(), [&](std::uint32_t a, std::uint32_t b) {
+        return met[a].first.component < met[b].first.component;
+      });
+      for (std::size_t k = 1; k < byComponent.size(); ++k)
+        if (met[byComponent[k]].first.component == met[byComponent[k - 1]].first.component) repeat[byComponent[k]] = 1;
+    }
     for (std::size_t k = 0; k < met.size(); ++k) {
       if (repeat[k]) continue;
       const auto &[pr, g] = met[k];
@@ -399,7 +414,7 @@ const char *shuntKindName(ShuntKind k) {
   return "pull-down";
 }
 
-NetId rolePinNet(const Circuit &circuit, const Component &c, const Part &part, const std::string &role) {
+NetId rolePinNet(const Circuit &circuit, const Component &c, const Part &part, std::string_view role) {
   // Emitter/source and collector/drain name the same terminal of an IGBT or a MOSFET.
   std::string_view alias = role == "emitter"     ? "source"
                            : role == "source"    ? "emitter"
@@ -407,7 +422,7 @@ NetId rolePinNet(const Circuit &circuit, const Component &c, const Part &part, c
                            : role == "drain"     ? "collector"
                                                  : "";
   auto it = part.pins.find(role);
-  if (it == part.pins.end() && !alias.empty()) it = part.pins.find(std::string(alias));
+  if (it == part.pins.end() && !alias.empty()) it = part.pins.find(alias);
   if (it != part.pins.end()) return circuit.pinNet(c, it->second);
   // Parts without a pin map on primitive SPICE transistors use the element's own pin order.
   bool mos = c.kind == ElementKind::Mosfet, bjt = c.kind == ElementKind::Bjt;

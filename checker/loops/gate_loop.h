@@ -10,6 +10,7 @@
 #include "checker/model/parts.h"
 
 #include <string>
+#include <string_view>
 #include <vector>
 
 namespace gateloop {
@@ -83,6 +84,6 @@ std::vector<GateLoop> extractGateLoops(const Circuit &circuit, const PartLibrary
 /// Net of the part pin with \p role on \p c (for example "gate"), or kNone when the part does not
 /// name that role or the component has no such pin. Accepts role aliases (emitter/source,
 /// collector/drain).
-NetId rolePinNet(const Circuit &circuit, const Component &c, const Part &part, const std::string &role);
+NetId rolePinNet(const Circuit &circuit, const Component &c, const Part &part, std::string_view role);
 
 } // namespace gateloop

@@ -10,7 +10,6 @@
 #include <cmath>
 #include <limits>
 #include <map>
-#include <set>
 
 namespace gateloop {
 
@@ -46,13 +45,20 @@ public:
     edge(true, a_.on);
     edge(false, a_.off);
     shareResistorsAcrossEdges();
-    a_.assumptions.assign(assumptions_.begin(), assumptions_.end());
-    a_.missing.assign(missing_.begin(), missing_.end());
+    // Sorted and without repeats, as reports list them.
+    std::sort(assumptions_.begin(), assumptions_.end());
+    std::sort(missing_.begin(), missing_.end());
+    a_.assumptions = std::move(assumptions_);
+    a_.missing = std::move(missing_);
     return std::move(a_);
   }
 
 private:
-  static void note(std::set<std::string> &into, std::string text) { into.insert(std::move(text)); }
+  // A loop collects a handful of notes, many of them the same for every resistor: a scan finds
+  // a repeat before any string is made.
+  static void note(std::vector<std::string> &into, std::string_view text) {
+    if (std::find(into.begin(), into.end(), text) == into.end()) into.emplace_back(text);
+  }
 
   void railVoltages() {
     a_.vOn = op_.driveVOn ? op_.driveVOn : drv_ ? drv_->vOn : std::nullopt;
@@ -149,7 +155,8 @@ private:
   }
 
   void edge(bool on, EdgeAnalysis &e) {
-    std::vector<std::pair<const GatePath *, const PathNumbers *>> paths;
+    thread_local std::vector<std::pair<const GatePath *, const PathNumbers *>> paths;
+    paths.clear();
     for (std::size_t i = 0; i < loop_.paths.size(); ++i) {
       const GatePath &p = loop_.paths[i];
       if (on ? p.conductsOn : p.conductsOff) paths.emplace_back(&p, &cachedPathNumbers(i));
@@ -208,6 +215,7 @@ private:
     if (op_.fSw) e.pAvg = Watt(eExternal.si() * op_.fSw->si());
     else note(missing_, "switching frequency operating.f_sw");
 
+    e.loads.reserve(e.resistors.size());
     for (const auto &[path, pn] : paths) {
       if (!pn->resistance || pn->resistance->si() <= 0.0) continue;
       double pathShare = e.rExternal->si() / pn->resistance->si(); // current fraction in this path
@@ -270,8 +278,10 @@ private:
     if (!op_.tAmbient) note(assumptions_, "operating.t_ambient not given; 25 degC assumed for resistor derating");
     Celsius tKnee = p->tKnee ? *p->tKnee : Celsius(70.0);
     Celsius tMax = p->tMax ? *p->tMax : Celsius(155.0);
-    if (!p->tKnee || !p->tMax)
+    if ((!p->tKnee || !p->tMax) && std::find(partsWithoutKnee_.begin(), partsWithoutKnee_.end(), p) == partsWithoutKnee_.end()) {
+      partsWithoutKnee_.push_back(p);
       note(assumptions_, "resistor part " + p->id + " lacks t_knee/t_max; 70/155 degC assumed (typical thick film)");
+    }
     l.deratedPower = deratedPower(*p->pRated, tKnee, tMax, tAmb);
     if (p->pulse.empty() || l.pulseWidth.si() <= 0.0) return;
     // Beyond the curve the continuous rating applies; repetitivePulseLimit derates it for ambient.
@@ -291,7 +301,8 @@ private:
   const Part *sw_;
   const Part *drv_;
   LoopAnalysis a_;
-  std::set<std::string> assumptions_, missing_;
+  std::vector<std::string> assumptions_, missing_;
+  std::vector<const Part *> partsWithoutKnee_;
   std::vector<std::optional<PathNumbers>> pathCache_; ///< parallel to loop_.paths
 };
 

@@ -36,7 +36,7 @@ struct Part {
   /// Pin roles to pin names: switch roles gate, emitter|source, kelvin, collector|drain (stored
   /// in the kind's own words: emitter/collector for an IGBT, source/drain for a MOSFET); driver
   /// roles out_source, out_sink, out, ref, supply, clamp; diode, Zener and TVS roles anode, cathode.
-  std::map<std::string, std::string> pins;
+  std::map<std::string, std::string, std::less<>> pins; ///< role -> pin name; found by string_view
 
   // Switches (igbt, mosfet). v_gs_* and v_ge_* are the same fields.
   std::optional<Volt> vGateMax, vGateMin, vThMin, vPlateau;

@@ -52,7 +52,7 @@ public:
       auto pins = c.pins(comp);
       if (pins.size() == 2) caps[std::minmax(pins[0], pins[1])].push_back(id);
     }
-    std::set<std::string> partsWithoutPins;
+    std::vector<const Part *> partsWithoutPins;
     for (const auto &[driver, i] : worstLoop) checkDriver(design, caps, driver, i, k, ripple, partsWithoutPins, sink);
   }
 
@@ -65,7 +65,7 @@ private:
   }
 
   void checkDriver(const DesignContext &design, const CapacitorsByNets &bypass, ComponentId driver,
-                   std::size_t loopIndex, double k, double ripple, std::set<std::string> &partsWithoutPins,
+                   std::size_t loopIndex, double k, double ripple, std::vector<const Part *> &partsWithoutPins,
                    FindingSink &sink) const {
     const GateLoop &loop = design.loops[loopIndex];
     const Circuit &c = design.circuit;
@@ -76,11 +76,13 @@ private:
     double q = charge(design.analyses[loopIndex]);
     if (supply == kNone || ref == kNone) {
       // Missing pins are a property of the part: say it once per part, not once per driver.
-      if (partsWithoutPins.insert(part.id).second)
+      if (std::find(partsWithoutPins.begin(), partsWithoutPins.end(), &part) == partsWithoutPins.end()) {
+        partsWithoutPins.push_back(&part);
         sink.report(designNote(info(), design,
                                "not checked: driver part " + part.id + " names no 'supply' and 'ref' pins (or they are "
                                "not connected), so its bypass capacitors cannot be found",
                                "add the supply and reference pins to the driver part's 'pins'"));
+      }
       return;
     }
     if (q <= 0.0) {

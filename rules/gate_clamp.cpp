@@ -17,7 +17,7 @@ constexpr double kDefaultForwardDrop = 0.7;
 /// The voltages at which a clamp starts to conduct, positive and negative (gate minus reference).
 struct ClampLevels {
   std::optional<double> positive, negative; ///< negative is a negative number
-  std::vector<ComponentId> elements;
+  const std::vector<ComponentId> *elements = nullptr; ///< the shunt's, which outlives the check
   std::string missing;
 };
 
@@ -41,7 +41,8 @@ public:
         sink.report(missingDataNote(info(), design, loop, "drive voltages and the switch's v_ge_max/v_ge_min"));
         continue;
       }
-      std::vector<ClampLevels> clamps;
+      thread_local std::vector<ClampLevels> clamps;
+      clamps.clear();
       for (const Shunt &s : loop.shunts)
         if (s.kind == ShuntKind::ZenerClamp || s.kind == ShuntKind::ClampPair || s.kind == ShuntKind::DiodeClamp)
           clamps.push_back(levels(design, s));
@@ -53,7 +54,7 @@ public:
 private:
   ClampLevels levels(const DesignContext &design, const Shunt &s) const {
     ClampLevels c;
-    c.elements = s.elements;
+    c.elements = &s.elements;
     auto breakdown = [&](ComponentId id) -> std::optional<double> {
       const Part *p = design.partOf(id);
       if (p && p->vBreakdown) return p->vBreakdown->si();
@@ -102,7 +103,7 @@ private:
       std::optional<double> level = positive ? c.positive : c.negative;
       if (!level) {
         if (!c.missing.empty())
-          sink.report(missingDataNote(info(), design, loop, c.missing, c.elements));
+          sink.report(missingDataNote(info(), design, loop, c.missing, *c.elements));
         continue;
       }
       double mag = std::fabs(*level), drive = std::fabs(vDrive), limit = std::fabs(vLimit);
@@ -110,15 +111,15 @@ private:
         good = true;
         continue;
       }
-      Finding f = makeLoopFinding(info(), Severity::Warning, design, loop, c.elements,
+      Finding f = makeLoopFinding(info(), Severity::Warning, design, loop, *c.elements,
                                   mag <= drive
                                       ? fmt::format("{} clamps the {} gate voltage of {} at {}, inside the drive "
                                                     "level of {}: it conducts during normal drive",
-                                                    joinNames(design, c.elements), polarity, loop.id, eng(*level, "V"),
+                                                    joinNames(design, *c.elements), polarity, loop.id, eng(*level, "V"),
                                                     eng(vDrive, "V"))
                                       : fmt::format("{} clamps the {} gate voltage of {} only at {}, beyond the gate "
                                                     "limit of {}",
-                                                    joinNames(design, c.elements), polarity, loop.id, eng(*level, "V"),
+                                                    joinNames(design, *c.elements), polarity, loop.id, eng(*level, "V"),
                                                     eng(vLimit, "V")));
       f.values = {{"v_clamp", *level, "V"}, {"v_drive", vDrive, "V"}, {"v_limit", vLimit, "V"}};
       f.fix = fmt::format("use a clamp that conducts between {} and {} in the {} direction (e.g. a bidirectional "

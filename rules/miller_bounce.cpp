@@ -27,14 +27,10 @@ public:
 
   void check(const DesignContext &design, const RuleOptions &options, FindingSink &sink) const override {
     double margin = options.number("margin", 0.2);
-    std::unordered_map<ComponentId, std::size_t> loopOfSwitch;
-    for (std::size_t i = 0; i < design.loops.size(); ++i) loopOfSwitch.emplace(design.loops[i].switchId, i);
     for (std::size_t i = 0; i < design.loops.size(); ++i) {
       const GateLoop &loop = design.loops[i];
       if (loop.halfBridgePartner == kNone || loop.paths.empty()) continue;
-      auto partner = loopOfSwitch.find(loop.halfBridgePartner);
-      checkLoop(design, i, partner == loopOfSwitch.end() ? std::nullopt : std::optional<std::size_t>(partner->second),
-                margin, sink);
+      checkLoop(design, i, loopOfSwitch(design, loop.halfBridgePartner), margin, sink);
     }
   }
 
@@ -42,7 +38,7 @@ private:
   // The slope the partner makes at turn-on: given by the operating point, else from the partner's
   // own gate drive on its Miller plateau.
   std::optional<VoltPerSecond> partnerSlope(const DesignContext &design, std::optional<std::size_t> j,
-                                            std::string &basis) const {
+                                            const char *&basis) const {
     if (design.operating.dvDt) {
       basis = "operating.dv_dt";
       return design.operating.dvDt;
@@ -68,7 +64,7 @@ private:
                                   "resistance"));
       return;
     }
-    std::string basis;
+    const char *basis = "";
     auto slope = partnerSlope(design, partner, basis);
     if (!slope) {
       sink.report(missingDataNote(info(), design, loop,

@@ -1,5 +1,7 @@
 #include "rules/rule_support.h"
 
+#include <algorithm>
+
 namespace gateloop {
 
 Finding missingDataNote(const RuleInfo &info, const DesignContext &design, const GateLoop &loop, std::string what,
@@ -40,6 +42,14 @@ std::string joinNames(const DesignContext &design, const std::vector<ComponentId
 }
 
 const Part &switchPart(const DesignContext &design, const GateLoop &loop) { return *design.partOf(loop.switchId); }
+
+std::optional<std::size_t> loopOfSwitch(const DesignContext &design, ComponentId switchId) {
+  const auto &loops = design.loops;
+  auto it = std::lower_bound(loops.begin(), loops.end(), switchId,
+                             [](const GateLoop &l, ComponentId id) { return l.switchId < id; });
+  if (it == loops.end() || it->switchId != switchId) return std::nullopt;
+  return static_cast<std::size_t>(it - loops.begin());
+}
 
 const Part *driverPart(const DesignContext &design, const GateLoop &loop) {
   return loop.driver == kNone ? nullptr : design.partOf(loop.driver);

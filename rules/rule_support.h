@@ -32,6 +32,10 @@ std::string joinNames(const DesignContext &design, const std::vector<ComponentId
 /// The switch part of a loop (rules only see loops of switches that have one).
 const Part &switchPart(const DesignContext &design, const GateLoop &loop);
 
+/// Index of the loop of switch \p switchId, or nothing when it has none. Loops come in the
+/// order of their switches (extractGateLoops), so this is a binary search.
+std::optional<std::size_t> loopOfSwitch(const DesignContext &design, ComponentId switchId);
+
 /// The driver part of a loop, or nullptr.
 const Part *driverPart(const DesignContext &design, const GateLoop &loop);
 

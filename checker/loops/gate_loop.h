@@ -77,8 +77,9 @@ struct GateLoop {
   bool pathLimitHit = false;           ///< the walk stopped at its bound; paths may be missing
 };
 
-/// Extracts every gate loop of switches that have a switch part. Components that are hidden or
-/// Subcircuit instances without a part are ignored.
+/// Extracts every gate loop of switches that have a switch part, in the order of the switches'
+/// component ids (rules look loops up by switch with a binary search). Components that are hidden
+/// or Subcircuit instances without a part are ignored.
 std::vector<GateLoop> extractGateLoops(const Circuit &circuit, const PartLibrary &lib);
 
 /// Net of the part pin with \p role on \p c (for example "gate"), or kNone when the part does not

@@ -56,7 +56,7 @@ public:
   NetsInductance finish(bool haveLayout) {
     if (!haveLayout) {
       out_.method = "none";
-      out_.missing.push_back("no layout sidecar: the loop inductance covers part-internal inductance only");
+      out_.missing.push_back(kNoLayoutSidecarNote);
     } else if (methods_.empty()) {
       out_.method = "none";
     } else if (methods_.size() == 1) {

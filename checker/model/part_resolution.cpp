@@ -4,6 +4,7 @@
 
 #include "checker/model/part_resolution.h"
 
+#include "checker/core/parallel.h"
 #include "checker/core/text_util.h"
 
 #include <algorithm>
@@ -121,44 +122,50 @@ void resolveParts(Circuit &circuit, const PartLibrary &lib,
     for (const auto &m : p.matchModel) claim(byModel, m, "model");
   }
 
-  std::unordered_map<std::string, int> hintCache;
-  constexpr std::uint32_t kUnlooked = kNone - 1;
-  std::vector<std::uint32_t> modelPartOf, subcktPartOf; // by model StringId
+  // Per interned string (model, subcircuit and part-hint names: a handful, however big the deck),
+  // the part it names; looked up once, before the components are shared out among threads.
+  const std::size_t stringCount = circuit.stringCount();
+  std::vector<std::int32_t> hintPart(stringCount, -1);
+  std::vector<std::uint32_t> modelPart(stringCount, kNone), subcktPart(stringCount, kNone);
+  for (StringId id = 1; id < stringCount; ++id) {
+    std::string name(circuit.str(id));
+    hintPart[id] = lib.find(name);
+    std::string lower = toLower(name);
+    if (auto it = byModel.find(lower); it != byModel.end()) modelPart[id] = it->second;
+    if (auto it = bySubckt.find(lower); it != bySubckt.end()) subcktPart[id] = it->second;
+  }
+  std::vector<bool> hierarchical(assign.size());
+  for (std::size_t i = 0; i < assign.size(); ++i) hierarchical[i] = assign[i].first.find('.') != std::string::npos;
+
+  // Each component on its own (glob patterns against millions of names), then the messages in
+  // component order.
   auto &components = circuit.components();
-  for (auto &c : components) {
-    c.part = kNone;
-    bool viaMatch = false;
-    if (c.partHint != 0) {
-      std::string id(circuit.str(c.partHint));
-      auto [it, inserted] = hintCache.try_emplace(id, -1);
-      if (inserted) it->second = lib.find(id);
-      if (it->second >= 0) c.part = static_cast<std::uint32_t>(it->second);
-      else diags.error(c.where, unknownPartMessage(id, lib, c.name));
-    }
-    // The input's own part attribute wins: assign and match never override it.
-    for (std::size_t i = 0; c.partHint == 0 && i < assign.size(); ++i) {
-      const std::string &pattern = assign[i].first;
-      bool hierarchical = pattern.find('.') != std::string::npos;
-      if (!globMatch(pattern, hierarchical ? std::string_view(c.name) : leafName(c.name))) continue;
-      if (assignPart[i] >= 0) c.part = static_cast<std::uint32_t>(assignPart[i]);
-      break; // first matching pattern decides, even when its part id was unknown
-    }
-    if (c.partHint == 0 && c.part == kNone && c.model != 0) {
-      // Decks name a few models millions of times: look each (model, kind) up once.
-      const bool subckt = c.kind == ElementKind::Subcircuit;
-      auto &cache = subckt ? subcktPartOf : modelPartOf;
-      if (cache.size() <= c.model) cache.resize(circuit.stringCount(), kUnlooked);
-      if (cache[c.model] == kUnlooked) {
-        auto &map = subckt ? bySubckt : byModel;
-        auto it = map.find(toLower(circuit.str(c.model)));
-        cache[c.model] = it == map.end() ? kNone : it->second;
-      }
-      if (cache[c.model] != kNone) {
-        c.part = cache[c.model];
-        viaMatch = true;
-      }
-    }
-    if (c.part != kNone && !viaMatch && !compatible(c.kind, lib.parts[c.part].kind))
+  std::vector<std::uint8_t> viaMatch(components.size(), 0);
+  parallelFor(
+      components.size(),
+      [&](std::size_t k) {
+        Component &c = components[k];
+        c.part = kNone;
+        if (c.partHint != 0) {
+          if (hintPart[c.partHint] >= 0) c.part = static_cast<std::uint32_t>(hintPart[c.partHint]);
+          return; // the input's own part attribute wins: assign and match never override it
+        }
+        for (std::size_t i = 0; i < assign.size(); ++i) {
+          if (!globMatch(assign[i].first, hierarchical[i] ? std::string_view(c.name) : leafName(c.name))) continue;
+          if (assignPart[i] >= 0) c.part = static_cast<std::uint32_t>(assignPart[i]);
+          return; // first matching pattern decides, even when its part id was unknown
+        }
+        if (c.model != 0) {
+          c.part = c.kind == ElementKind::Subcircuit ? subcktPart[c.model] : modelPart[c.model];
+          viaMatch[k] = c.part != kNone;
+        }
+      },
+      /*grain=*/4096);
+  for (std::size_t k = 0; k < components.size(); ++k) {
+    const Component &c = components[k];
+    if (c.partHint != 0 && c.part == kNone)
+      diags.error(c.where, unknownPartMessage(std::string(circuit.str(c.partHint)), lib, c.name));
+    if (c.part != kNone && !viaMatch[k] && !compatible(c.kind, lib.parts[c.part].kind))
       diags.warning(c.where, std::string("part \"") + lib.parts[c.part].id + "\" is a " +
                                  partKindName(lib.parts[c.part].kind) + " but " + std::string(c.name) + " is a " +
                                  elementKindName(c.kind) + " element");

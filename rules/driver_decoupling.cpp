@@ -43,14 +43,27 @@ public:
     std::vector<std::pair<ComponentId, std::size_t>> worstLoop;
     for (const auto &entry : byDriver)
       if (worstLoop.empty() || worstLoop.back().first != entry.first) worstLoop.push_back(entry);
-    // Capacitors indexed by the (unordered) pair of nets they bridge, built once per design.
-    CapacitorsByNets caps;
+    // Capacitors across a driver's supply and reference, found in one pass over the circuit: the
+    // net pairs wanted are sorted first, and only capacitors bridging one of them are kept.
     const Circuit &c = design.circuit;
-    for (ComponentId id = 0; id < c.components().size(); ++id) {
-      const Component &comp = c.component(id);
-      if (comp.hidden || loopRole(comp, design.parts) != LoopRole::Capacitor) continue;
-      auto pins = c.pins(comp);
-      if (pins.size() == 2) caps[std::minmax(pins[0], pins[1])].push_back(id);
+    std::vector<std::pair<NetId, NetId>> wanted;
+    for (const auto &[driver, i] : worstLoop) {
+      const Part *part = design.partOf(driver);
+      NetId supply = rolePinNet(c, c.component(driver), *part, "supply");
+      NetId ref = rolePinNet(c, c.component(driver), *part, "ref");
+      if (supply != kNone && ref != kNone) wanted.push_back(std::minmax(supply, ref));
+    }
+    std::sort(wanted.begin(), wanted.end());
+    CapacitorsByNets caps;
+    if (!wanted.empty()) {
+      for (ComponentId id = 0; id < c.components().size(); ++id) {
+        const Component &comp = c.component(id);
+        if (comp.hidden || loopRole(comp, design.parts) != LoopRole::Capacitor) continue;
+        auto pins = c.pins(comp);
+        if (pins.size() != 2) continue;
+        std::pair<NetId, NetId> nets = std::minmax(pins[0], pins[1]);
+        if (std::binary_search(wanted.begin(), wanted.end(), nets)) caps[nets].push_back(id);
+      }
     }
     std::vector<const Part *> partsWithoutPins;
     for (const auto &[driver, i] : worstLoop) checkDriver(design, caps, driver, i, k, ripple, partsWithoutPins, sink);

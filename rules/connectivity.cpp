@@ -82,11 +82,14 @@ private:
 
   void checkDriverOutputs(const DesignContext &design, const UsedOutputs &used, FindingSink &sink) const {
     const Circuit &c = design.circuit;
-    std::vector<std::uint32_t> pinsOnNet(c.nets().size(), 0);
-    for (const Component &comp : c.components()) {
-      if (comp.hidden || (comp.kind == ElementKind::Subcircuit && comp.part == kNone)) continue;
-      for (NetId n : c.pins(comp)) ++pinsOnNet[n];
-    }
+    // Outputs that no gate path starts from; usually none, so the pins per net are only counted
+    // when there is one to judge.
+    struct Unused {
+      ComponentId driver;
+      const std::string *pin;
+      NetId net;
+    };
+    std::vector<Unused> unused;
     for (ComponentId id = 0; id < c.components().size(); ++id) {
       const Component &comp = c.component(id);
       if (comp.hidden || loopRole(comp, design.parts) != LoopRole::Driver) continue;
@@ -95,19 +98,29 @@ private:
         auto it = part.pins.find(role);
         if (it == part.pins.end() || isUsed(used, id, it->second)) continue;
         NetId net = c.pinNet(comp, it->second);
-        if (net == kNone || pinsOnNet[net] < 2) continue; // a spare, unconnected output
-        Finding f;
-        f.rule = info().id;
-        f.severity = Severity::Error;
-        f.design = design.name;
-        f.refs = {std::string(comp.name)};
-        f.where = comp.where;
-        f.message = fmt::format("output {} of driver {} (net {}) reaches no switch gate", it->second, comp.name,
-                                c.netAt(net).name);
-        f.fix = "connect the output through its gate resistor to the switch gate, or check the switch's part "
-                "assignment";
-        sink.report(std::move(f));
+        if (net != kNone) unused.push_back({id, &it->second, net});
       }
+    }
+    if (unused.empty()) return;
+    std::vector<std::uint32_t> pinsOnNet(c.nets().size(), 0);
+    for (const Component &comp : c.components()) {
+      if (comp.hidden || (comp.kind == ElementKind::Subcircuit && comp.part == kNone)) continue;
+      for (NetId n : c.pins(comp)) ++pinsOnNet[n];
+    }
+    for (const Unused &u : unused) {
+      if (pinsOnNet[u.net] < 2) continue; // a spare, unconnected output
+      const Component &comp = c.component(u.driver);
+      Finding f;
+      f.rule = info().id;
+      f.severity = Severity::Error;
+      f.design = design.name;
+      f.refs = {std::string(comp.name)};
+      f.where = comp.where;
+      f.message = fmt::format("output {} of driver {} (net {}) reaches no switch gate", *u.pin, comp.name,
+                              c.netAt(u.net).name);
+      f.fix = "connect the output through its gate resistor to the switch gate, or check the switch's part "
+              "assignment";
+      sink.report(std::move(f));
     }
   }
 

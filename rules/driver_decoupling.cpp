@@ -28,31 +28,30 @@ public:
   void check(const DesignContext &design, const RuleOptions &options, FindingSink &sink) const override {
     double k = options.number("k", 5.0);
     double ripple = options.quantity("ripple", Dimension::Voltage, 0.5);
-    // One check per driver, sized for the largest gate charge it drives.
-    // (driver, loop) sorted by driver and, within a driver, largest charge first (earliest loop
-    // on a tie): the first entry of each driver is its worst loop.
-    std::vector<std::pair<ComponentId, std::size_t>> byDriver;
+    // One check per driver, sized for the largest gate charge it drives: entries sorted by driver
+    // and, within a driver, largest charge first (earliest loop on a tie).
+    std::vector<DriverLoop> byDriver;
     for (std::size_t i = 0; i < design.loops.size(); ++i)
-      if (design.loops[i].driver != kNone) byDriver.emplace_back(design.loops[i].driver, i);
+      if (design.loops[i].driver != kNone) byDriver.push_back({design.loops[i].driver, i, charge(design.analyses[i])});
     if (byDriver.empty()) return;
-    std::sort(byDriver.begin(), byDriver.end(), [&](const auto &a, const auto &b) {
-      if (a.first != b.first) return a.first < b.first;
-      double qa = charge(design.analyses[a.second]), qb = charge(design.analyses[b.second]);
-      return qa != qb ? qa > qb : a.second < b.second;
+    std::sort(byDriver.begin(), byDriver.end(), [](const DriverLoop &a, const DriverLoop &b) {
+      if (a.driver != b.driver) return a.driver < b.driver;
+      return a.charge != b.charge ? a.charge > b.charge : a.loop < b.loop;
     });
-    std::vector<std::pair<ComponentId, std::size_t>> worstLoop;
-    for (const auto &entry : byDriver)
-      if (worstLoop.empty() || worstLoop.back().first != entry.first) worstLoop.push_back(entry);
+    std::vector<DriverLoop> worstLoop;
+    const Circuit &c = design.circuit;
+    for (const DriverLoop &entry : byDriver) {
+      if (!worstLoop.empty() && worstLoop.back().driver == entry.driver) continue;
+      worstLoop.push_back(entry);
+      const Part &part = *design.partOf(entry.driver);
+      worstLoop.back().supply = rolePinNet(c, c.component(entry.driver), part, "supply");
+      worstLoop.back().ref = rolePinNet(c, c.component(entry.driver), part, "ref");
+    }
     // Capacitors across a driver's supply and reference, found in one pass over the circuit: the
     // net pairs wanted are sorted first, and only capacitors bridging one of them are kept.
-    const Circuit &c = design.circuit;
     std::vector<std::pair<NetId, NetId>> wanted;
-    for (const auto &[driver, i] : worstLoop) {
-      const Part *part = design.partOf(driver);
-      NetId supply = rolePinNet(c, c.component(driver), *part, "supply");
-      NetId ref = rolePinNet(c, c.component(driver), *part, "ref");
-      if (supply != kNone && ref != kNone) wanted.push_back(std::minmax(supply, ref));
-    }
+    for (const DriverLoop &d : worstLoop)
+      if (d.supply != kNone && d.ref != kNone) wanted.push_back(std::minmax(d.supply, d.ref));
     std::sort(wanted.begin(), wanted.end());
     CapacitorsByNets caps;
     if (!wanted.empty()) {
@@ -66,27 +65,33 @@ public:
       }
     }
     std::vector<const Part *> partsWithoutPins;
-    for (const auto &[driver, i] : worstLoop) checkDriver(design, caps, driver, i, k, ripple, partsWithoutPins, sink);
+    for (const DriverLoop &d : worstLoop) checkDriver(design, caps, d, k, ripple, partsWithoutPins, sink);
   }
 
 private:
   using CapacitorsByNets = std::map<std::pair<NetId, NetId>, std::vector<ComponentId>>;
+
+  struct DriverLoop {
+    ComponentId driver;
+    std::size_t loop;
+    double charge;
+    NetId supply = kNone, ref = kNone;
+  };
 
   static double charge(const LoopAnalysis &a) {
     if (!a.cGate || !a.vOn || !a.vOff) return 0.0;
     return a.cGate->si() * (*a.vOn - *a.vOff).si();
   }
 
-  void checkDriver(const DesignContext &design, const CapacitorsByNets &bypass, ComponentId driver,
-                   std::size_t loopIndex, double k, double ripple, std::vector<const Part *> &partsWithoutPins,
-                   FindingSink &sink) const {
-    const GateLoop &loop = design.loops[loopIndex];
+  void checkDriver(const DesignContext &design, const CapacitorsByNets &bypass, const DriverLoop &d, double k,
+                   double ripple, std::vector<const Part *> &partsWithoutPins, FindingSink &sink) const {
+    const ComponentId driver = d.driver;
+    const GateLoop &loop = design.loops[d.loop];
     const Circuit &c = design.circuit;
     const Component &drv = c.component(driver);
     const Part &part = *design.partOf(driver);
-    NetId supply = rolePinNet(c, drv, part, "supply");
-    NetId ref = rolePinNet(c, drv, part, "ref");
-    double q = charge(design.analyses[loopIndex]);
+    const NetId supply = d.supply, ref = d.ref;
+    const double q = d.charge;
     if (supply == kNone || ref == kNone) {
       // Missing pins are a property of the part: say it once per part, not once per driver.
       if (std::find(partsWithoutPins.begin(), partsWithoutPins.end(), &part) == partsWithoutPins.end()) {

@@ -143,8 +143,8 @@ private:
     loop.refNet = loop.kelvinConnected ? loop.kelvinNet : loop.emitterNet;
     if (loop.gateNet == kNone) return loop;
 
-    loop.paths.reserve(4);
-    loop.shunts.reserve(4);
+    loop.paths.reserve(2); // on and off
+    loop.shunts.reserve(3); // pull-down and a clamp or two
     walkPaths(loop);
     collectShunts(loop);
     if (!loop.paths.empty()) {

@@ -548,6 +548,17 @@ TEST(Connectivity, GateWithoutDriverAndDriverWithoutSwitch) {
   auto f = run->findings("connectivity");
   ASSERT_EQ(f.size(), 3u); // XQ1's gate; XU1's OUTH and OUTL
   for (const auto &x : f) EXPECT_EQ(x.severity, Severity::Error);
+  std::size_t unusedOutputs = 0;
+  for (const auto &x : f) unusedOutputs += x.message.find("reaches no switch gate") != std::string::npos;
+  EXPECT_EQ(unusedOutputs, 2u);
+}
+
+TEST(Connectivity, SpareUnconnectedOutputIsNotAnError) {
+  // Both resistors hang off OUTH; OUTL's net holds only the driver pin: a spare output.
+  std::string deck = replaceAll(leg(), "ROFF1 GL1 G1 2.2\n", "ROFF1 GH1 G1 2.2\n");
+  auto run = runPipeline(legWith("RES-2512-PP", deck));
+  ASSERT_TRUE(run->inputOk) << run->diagnostics();
+  EXPECT_TRUE(run->findings("connectivity").empty());
 }
 
 TEST(Connectivity, MissingGateResistorAndUnassignedTransistors) {

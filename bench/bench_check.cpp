@@ -143,7 +143,7 @@ int main(int argc, char **argv) {
   std::printf("check / parse     %.2f (target <= 2)\n", check / parse);
   std::printf("per loop          %.2f us beyond parsing\n", loops ? (check - parse) / loops * 1e6 : 0.0);
   std::printf("wc -l             best %.3f s; check / wc -l = %.1f\n", wc, check / wc);
-  std::printf("peak memory       %.1f MB (ru_maxrss), %.2f x file size\n", peakRssKb() / 1024.0,
+  std::printf("peak memory       %.1f MB (ru_maxrss), %.2f x file size\n", peakRssKb() * 1024.0 / 1e6,
               peakRssKb() * 1024.0 / bytes);
   fs::remove_all(dir);
   return 0;

@@ -130,7 +130,7 @@ int main(int argc, char **argv) {
   std::printf("throughput (cpu)  %.1f MB/s, %.2f M elements/s (best run, CPU time)\n",
               mb / cpuTimes.front(), static_cast<double>(elements) / cpuTimes.front() / 1e6);
   std::printf("peak memory       %.1f MB (ru_maxrss), %.2f x file size; before parsing %.1f MB\n",
-              rssPeak / 1024.0, rssPeak * 1024.0 / static_cast<double>(bytes), rssBefore / 1024.0);
+              rssPeak * 1024.0 / 1e6, rssPeak * 1024.0 / static_cast<double>(bytes), rssBefore * 1024.0 / 1e6);
   std::printf("wc -l             best %.3f s; parse / wc -l = %.1f\n", wcBest, best / wcBest);
   return ok ? 0 : 1;
 }

@@ -203,9 +203,9 @@ void Circuit::reserve(std::size_t components, std::size_t nets) {
   pinNets_.reserve(components * 3); // decks average about three pins per element
   nets_.reserve(nets);
   netIndex_.reserve(nets, [this](NetId id) { return nets_[id].name; });
+  // Not for the pin and net arrays: their reserve is a guess, and a huge page past the last
+  // element written would be resident for nothing.
   adviseHugePages(components_.data(), components_.capacity() * sizeof(Component));
-  adviseHugePages(pinNets_.data(), pinNets_.capacity() * sizeof(NetId));
-  adviseHugePages(nets_.data(), nets_.capacity() * sizeof(Net));
 }
 
 } // namespace gateloop

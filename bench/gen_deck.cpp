@@ -108,7 +108,8 @@ void writeBoardShare(std::FILE *f, const std::string &s, const char *dcp, const 
 }
 
 void writeFlatLeg(std::FILE *f, long i, bool board) {
-  std::string s = "_" + std::to_string(i);
+  std::string s = "_";
+  s += std::to_string(i); // (GCC 12 warns wrongly on "_" + std::to_string)
   std::string sw = "sw" + s;
   std::fprintf(f, "* leg %ld\n", i);
   writeSwitch(f, "h", s, "dcp", sw, 15, -5);

@@ -22,15 +22,18 @@ public:
     return kInfo;
   }
 
+  bool perLoop() const override { return true; }
+
   void check(const DesignContext &design, const RuleOptions &, FindingSink &sink) const override {
+    for (std::size_t i : design.loopIndexes()) checkLoop(design, design.loops[i], sink);
+    if (!design.wholeDesignBlock()) return;
+    // Driver outputs and bare transistors are about the design as a whole: every loop's paths.
     UsedOutputs usedOutputs;
-    for (const GateLoop &loop : design.loops) {
+    for (const GateLoop &loop : design.loops)
       for (const GatePath &p : loop.paths)
         if (usedOutputs.empty() || usedOutputs.back().first != p.driver ||
             !equalsIgnoreCase(usedOutputs.back().second, p.driverPin))
           usedOutputs.emplace_back(p.driver, p.driverPin);
-      checkLoop(design, loop, sink);
-    }
     std::sort(usedOutputs.begin(), usedOutputs.end(),
               [](const auto &a, const auto &b) { return a.first < b.first; });
     checkDriverOutputs(design, usedOutputs, sink);

@@ -20,10 +20,13 @@ public:
     return kInfo;
   }
 
+  bool perLoop() const override { return true; }
+
   void check(const DesignContext &design, const RuleOptions &options, FindingSink &sink) const override {
     double rMin = options.quantity("min", Dimension::Resistance, 1e3);
     double rMax = options.quantity("max", Dimension::Resistance, 100e3);
-    for (const GateLoop &loop : design.loops) {
+    for (std::size_t i : design.loopIndexes()) {
+      const GateLoop &loop = design.loops[i];
       std::vector<ComponentId> pulldowns;
       for (const Shunt &s : loop.shunts)
         if (s.kind == ShuntKind::PullDown) pulldowns.push_back(s.elements.front());

@@ -19,8 +19,10 @@ public:
     return kInfo;
   }
 
+  bool perLoop() const override { return true; }
+
   void check(const DesignContext &design, const RuleOptions &, FindingSink &sink) const override {
-    for (std::size_t i = 0; i < design.loops.size(); ++i) {
+    for (std::size_t i : design.loopIndexes()) {
       const GateLoop &loop = design.loops[i];
       const LoopAnalysis &a = design.analyses[i];
       const Part &sw = switchPart(design, loop);

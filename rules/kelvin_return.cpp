@@ -18,8 +18,11 @@ public:
     return kInfo;
   }
 
+  bool perLoop() const override { return true; }
+
   void check(const DesignContext &design, const RuleOptions &, FindingSink &sink) const override {
-    for (const GateLoop &loop : design.loops) {
+    for (std::size_t i : design.loopIndexes()) {
+      const GateLoop &loop = design.loops[i];
       if (loop.kelvinNet == kNone || loop.driver == kNone) continue; // no Kelvin pin: nothing to tie
       const Circuit &c = design.circuit;
       if (!loop.kelvinConnected) {

@@ -23,16 +23,18 @@ public:
     return kInfo;
   }
 
+  bool perLoop() const override { return true; }
+
   void check(const DesignContext &design, const RuleOptions &options, FindingSink &sink) const override {
     double fixedMax = options.quantity("max", Dimension::Length, NAN);
     double zetaWarn = options.number("zeta_warn", 0.7);
     if (!design.layout) {
-      if (!design.loops.empty())
+      if (!design.loops.empty() && design.wholeDesignBlock())
         sink.report(designNote(info(), design, "not checked: no layout sidecar gives the gate-loop lengths",
                                "give the design a layout sidecar with the lengths of its gate-loop nets"));
       return;
     }
-    for (std::size_t i = 0; i < design.loops.size(); ++i) {
+    for (std::size_t i : design.loopIndexes()) {
       const GateLoop &loop = design.loops[i];
       const LoopAnalysis &a = design.analyses[i];
       if (loop.paths.empty()) continue;

@@ -21,15 +21,17 @@ public:
     return kInfo;
   }
 
+  bool perLoop() const override { return true; }
+
   void check(const DesignContext &design, const RuleOptions &options, FindingSink &sink) const override {
     double zetaWarn = options.number("zeta_warn", 0.7);
     double zetaError = options.number("zeta_error", 0.4);
-    if (!design.layout && !design.loops.empty())
+    if (!design.layout && !design.loops.empty() && design.wholeDesignBlock())
       sink.report(designNote(info(), design,
                              "no layout sidecar: every loop's damping is computed with part-internal inductance only, "
                              "so it is optimistic",
                              "give the design a layout sidecar with the lengths of its gate-loop nets"));
-    for (std::size_t i = 0; i < design.loops.size(); ++i) {
+    for (std::size_t i : design.loopIndexes()) {
       const GateLoop &loop = design.loops[i];
       const LoopAnalysis &a = design.analyses[i];
       for (bool on : {true, false}) {

@@ -25,9 +25,11 @@ public:
     return kInfo;
   }
 
+  bool perLoop() const override { return true; }
+
   void check(const DesignContext &design, const RuleOptions &options, FindingSink &sink) const override {
     double margin = options.number("margin", 0.2);
-    for (std::size_t i = 0; i < design.loops.size(); ++i) {
+    for (std::size_t i : design.loopIndexes()) {
       const GateLoop &loop = design.loops[i];
       if (loop.halfBridgePartner == kNone || loop.paths.empty()) continue;
       checkLoop(design, i, loopOfSwitch(design, loop.halfBridgePartner), margin, sink);

@@ -19,8 +19,11 @@ public:
     return kInfo;
   }
 
+  bool perLoop() const override { return true; }
+
   void check(const DesignContext &design, const RuleOptions &, FindingSink &sink) const override {
-    for (const GateLoop &loop : design.loops) {
+    for (std::size_t i : design.loopIndexes()) {
+      const GateLoop &loop = design.loops[i];
       if (loop.paths.empty()) continue; // connectivity reports a gate without a driver
       bool anyOn = false, anyOff = false, anySeparate = false;
       for (const GatePath &p : loop.paths) {

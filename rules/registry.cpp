@@ -53,36 +53,63 @@ void validateRuleParams(const std::map<std::string, nlohmann::json> &params, Fil
 
 std::vector<Finding> runRules(const DesignContext &design, const std::map<std::string, nlohmann::json> &params,
                               const std::map<std::string, SeverityOverride> &overrides) {
-  // Rules only read the design, so they run side by side; their findings are merged in the
-  // registry's order, which keeps the output the same however the work was shared out.
   const auto &rules = builtinRules();
-  std::vector<std::vector<Finding>> perRule(rules.size());
-  parallelFor(
-      rules.size(),
-      [&](std::size_t r) {
-        const Rule &rule = *rules[r];
-        const std::string &id = rule.info().id;
-        auto p = params.find(id);
-        RuleOptions options(id, p == params.end() ? nlohmann::json() : p->second);
-        std::optional<SeverityOverride> level;
-        if (auto s = options.severityOverride()) level = parseSeverityOverride(*s);
-        if (auto o = overrides.find(id); o != overrides.end()) level = o->second;
-        if (level && level->off) return;
+  struct Setup {
+    RuleOptions options;
+    std::optional<SeverityOverride> level;
+  };
+  std::vector<Setup> setup(rules.size());
+  std::vector<std::size_t> wholeDesign, loopByLoop; // rule indexes
+  for (std::size_t r = 0; r < rules.size(); ++r) {
+    const std::string &id = rules[r]->info().id;
+    auto p = params.find(id);
+    setup[r].options = RuleOptions(id, p == params.end() ? nlohmann::json() : p->second);
+    if (auto s = setup[r].options.severityOverride()) setup[r].level = parseSeverityOverride(*s);
+    if (auto o = overrides.find(id); o != overrides.end()) setup[r].level = o->second;
+    if (setup[r].level && setup[r].level->off) continue;
+    (rules[r]->perLoop() ? loopByLoop : wholeDesign).push_back(r);
+  }
 
-        CollectingSink ruleSink;
-        rule.check(design, options, ruleSink);
-        for (Finding &f : ruleSink.findings()) {
-          // A fixed level replaces the rule's own grading, except for notes about missing data,
-          // which must stay notes: they say the check could not be made, not that it failed.
-          if (level && f.severity != Severity::Note) f.severity = level->level;
-          if (f.fingerprint.empty()) f.fingerprint = findingFingerprint(f);
+  // Rules only read the design, so they run side by side: each whole-design rule is one task,
+  // and the per-loop rules run block by block (every rule on one block of loops while its data is
+  // in the cache, instead of every rule streaming through all loops). Findings are merged in the
+  // registry's order and, within a rule, in block order: the output is the same however the work
+  // was shared out.
+  constexpr std::size_t kLoopsPerBlock = 256;
+  const std::size_t blocks = std::max<std::size_t>(1, (design.loops.size() + kLoopsPerBlock - 1) / kLoopsPerBlock);
+  std::vector<std::vector<Finding>> wholeFindings(rules.size());
+  std::vector<std::vector<std::vector<Finding>>> blockFindings(blocks, std::vector<std::vector<Finding>>(rules.size()));
+  auto runRule = [&](std::size_t r, const DesignContext &context, std::vector<Finding> &out) {
+    CollectingSink sink;
+    rules[r]->check(context, setup[r].options, sink);
+    for (Finding &f : sink.findings()) {
+      // A fixed level replaces the rule's own grading, except for notes about missing data,
+      // which must stay notes: they say the check could not be made, not that it failed.
+      if (setup[r].level && f.severity != Severity::Note) f.severity = setup[r].level->level;
+      if (f.fingerprint.empty()) f.fingerprint = findingFingerprint(f);
+    }
+    out = std::move(sink.findings());
+  };
+  parallelFor(
+      wholeDesign.size() + blocks,
+      [&](std::size_t task) {
+        if (task < wholeDesign.size()) {
+          runRule(wholeDesign[task], design, wholeFindings[wholeDesign[task]]);
+          return;
         }
-        perRule[r] = std::move(ruleSink.findings());
+        const std::size_t b = task - wholeDesign.size();
+        DesignContext block = design;
+        block.firstLoop = b * kLoopsPerBlock;
+        block.endLoop = block.firstLoop + kLoopsPerBlock;
+        for (std::size_t r : loopByLoop) runRule(r, block, blockFindings[b][r]);
       },
       /*grain=*/1);
   CollectingSink sink;
-  for (auto &findings : perRule)
-    for (Finding &f : findings) sink.report(std::move(f));
+  for (std::size_t r = 0; r < rules.size(); ++r) {
+    for (Finding &f : wholeFindings[r]) sink.report(std::move(f));
+    for (auto &perBlock : blockFindings)
+      for (Finding &f : perBlock[r]) sink.report(std::move(f));
+  }
   return std::move(sink.findings());
 }
 

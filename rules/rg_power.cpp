@@ -22,9 +22,11 @@ public:
     return kInfo;
   }
 
+  bool perLoop() const override { return true; }
+
   void check(const DesignContext &design, const RuleOptions &options, FindingSink &sink) const override {
     double margin = options.number("margin", 0.5);
-    for (std::size_t i = 0; i < design.loops.size(); ++i) {
+    for (std::size_t i : design.loopIndexes()) {
       const GateLoop &loop = design.loops[i];
       const LoopAnalysis &a = design.analyses[i];
       std::set<ComponentId> seen;

@@ -13,6 +13,8 @@
 #include "checker/model/project.h"
 #include "rules/rule_options.h"
 
+#include <algorithm>
+#include <ranges>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -29,6 +31,15 @@ struct DesignContext {
   const std::vector<GateLoop> &loops;
   const std::vector<LoopAnalysis> &analyses; ///< parallel to loops
   FileId netlistFile = 0;
+  /// The loops this run of a rule reports on: [firstLoop, endLoop). A rule that says perLoop()
+  /// is handed the loops in blocks, so one block's data serves every rule while it is in the
+  /// cache; it may still read any other loop (a half-bridge partner). Findings about the design
+  /// as a whole belong to the block that starts at loop 0 (wholeDesignBlock()).
+  std::size_t firstLoop = 0;
+  std::size_t endLoop = static_cast<std::size_t>(-1);
+
+  auto loopIndexes() const { return std::views::iota(firstLoop, std::max(firstLoop, std::min(endLoop, loops.size()))); }
+  bool wholeDesignBlock() const { return firstLoop == 0; }
 
   const Component &component(ComponentId id) const { return circuit.component(id); }
   const Part *partOf(ComponentId id) const {
@@ -61,6 +72,9 @@ public:
   /// parameters (defaults applied). Findings carry the severity the rule decides; the caller
   /// applies user overrides afterwards.
   virtual void check(const DesignContext &design, const RuleOptions &options, FindingSink &sink) const = 0;
+  /// True when check() reports only on the loops of design.loopIndexes() (and on the design as a
+  /// whole in the wholeDesignBlock()), so the runner may hand it the loops block by block.
+  virtual bool perLoop() const { return false; }
 };
 
 /// Helper for rules: a finding about one loop, located at the switch and fingerprinted.

@@ -21,10 +21,13 @@ public:
     return kInfo;
   }
 
+  bool perLoop() const override { return true; }
+
   void check(const DesignContext &design, const RuleOptions &options, FindingSink &sink) const override {
     double derating = options.number("derating", 0.8);
     const OperatingPoint &op = design.operating;
-    for (const GateLoop &loop : design.loops) {
+    for (std::size_t i : design.loopIndexes()) {
+      const GateLoop &loop = design.loops[i];
       const Part &sw = switchPart(design, loop);
       std::optional<AmperePerSecond> didt = op.diDt;
       std::string basis = "operating.di_dt";

@@ -44,12 +44,6 @@ private:
   /// (driver, output pin name as the path names it), sorted by driver.
   using UsedOutputs = std::vector<std::pair<ComponentId, std::string_view>>;
 
-  static bool isUsed(const UsedOutputs &used, ComponentId driver, std::string_view pin) {
-    auto [from, to] = std::equal_range(used.begin(), used.end(), std::pair<ComponentId, std::string_view>{driver, {}},
-                                       [](const auto &a, const auto &b) { return a.first < b.first; });
-    return std::any_of(from, to, [&](const auto &u) { return equalsIgnoreCase(u.second, pin); });
-  }
-
   void checkLoop(const DesignContext &design, const GateLoop &loop, FindingSink &sink) const {
     if (loop.gateNet == kNone) {
       Finding f = makeLoopFinding(info(), Severity::Error, design, loop, {loop.switchId},
@@ -93,13 +87,20 @@ private:
       NetId net;
     };
     std::vector<Unused> unused;
+    // Drivers come in id order and `used` is sorted by driver: one cursor walks both.
+    auto cursor = used.begin();
     for (ComponentId id = 0; id < c.components().size(); ++id) {
       const Component &comp = c.component(id);
       if (comp.hidden || loopRole(comp, design.parts) != LoopRole::Driver) continue;
+      while (cursor != used.end() && cursor->first < id) ++cursor;
+      auto usesEnd = cursor;
+      while (usesEnd != used.end() && usesEnd->first == id) ++usesEnd;
       const Part &part = *design.partOf(id);
       for (const char *role : {"out_source", "out_sink", "out"}) {
         auto it = part.pins.find(role);
-        if (it == part.pins.end() || isUsed(used, id, it->second)) continue;
+        if (it == part.pins.end()) continue;
+        if (std::any_of(cursor, usesEnd, [&](const auto &u) { return equalsIgnoreCase(u.second, it->second); }))
+          continue;
         NetId net = c.pinNet(comp, it->second);
         if (net != kNone) unused.push_back({id, &it->second, net});
       }

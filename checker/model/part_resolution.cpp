@@ -134,8 +134,31 @@ void resolveParts(Circuit &circuit, const PartLibrary &lib,
     if (auto it = byModel.find(lower); it != byModel.end()) modelPart[id] = it->second;
     if (auto it = bySubckt.find(lower); it != bySubckt.end()) subcktPart[id] = it->second;
   }
-  std::vector<bool> hierarchical(assign.size());
-  for (std::size_t i = 0; i < assign.size(); ++i) hierarchical[i] = assign[i].first.find('.') != std::string::npos;
+  // Patterns as written are mostly a literal prefix and one trailing '*' ("Rg*"): those, and
+  // plain names, are compared directly instead of by the general matcher, for every element.
+  struct Pattern {
+    std::string_view text;
+    bool hierarchical;
+    enum class Form { Exact, Prefix, Glob } form;
+  };
+  std::vector<Pattern> patterns;
+  for (const auto &[pattern, partId] : assign) {
+    const std::string_view p = pattern;
+    const auto wild = p.find_first_of("*?");
+    Pattern::Form form = wild == std::string_view::npos                     ? Pattern::Form::Exact
+                         : (wild == p.size() - 1 && p.back() == '*')        ? Pattern::Form::Prefix
+                                                                            : Pattern::Form::Glob;
+    patterns.push_back({form == Pattern::Form::Prefix ? p.substr(0, p.size() - 1) : p,
+                        p.find('.') != std::string_view::npos, form});
+  }
+  auto matches = [](const Pattern &p, std::string_view name) {
+    switch (p.form) {
+    case Pattern::Form::Exact: return equalsIgnoreCase(p.text, name);
+    case Pattern::Form::Prefix: return name.size() >= p.text.size() && equalsIgnoreCase(p.text, name.substr(0, p.text.size()));
+    case Pattern::Form::Glob: break;
+    }
+    return globMatch(p.text, name);
+  };
 
   // Each component on its own (glob patterns against millions of names), then the messages in
   // component order.
@@ -150,8 +173,8 @@ void resolveParts(Circuit &circuit, const PartLibrary &lib,
           if (hintPart[c.partHint] >= 0) c.part = static_cast<std::uint32_t>(hintPart[c.partHint]);
           return; // the input's own part attribute wins: assign and match never override it
         }
-        for (std::size_t i = 0; i < assign.size(); ++i) {
-          if (!globMatch(assign[i].first, hierarchical[i] ? std::string_view(c.name) : leafName(c.name))) continue;
+        for (std::size_t i = 0; i < patterns.size(); ++i) {
+          if (!matches(patterns[i], patterns[i].hierarchical ? c.name : leafName(c.name))) continue;
           if (assignPart[i] >= 0) c.part = static_cast<std::uint32_t>(assignPart[i]);
           return; // first matching pattern decides, even when its part id was unknown
         }

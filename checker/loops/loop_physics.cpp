@@ -28,6 +28,18 @@ struct PathNumbers {
   Henry layoutInductance;          ///< of the path's own nets from the sidecar
 };
 
+/// The note for a resistor part without its derating knee, made once per part id and thread:
+/// every loop with such a resistor carries it. (Keyed by the id, which is all the text depends on;
+/// a part's address could be reused by another library.)
+const std::string &kneeAssumption(const Part &p) {
+  thread_local std::vector<std::pair<std::string, std::string>> made;
+  for (const auto &[id, text] : made)
+    if (id == p.id) return text;
+  if (made.size() > 64) made.clear(); // a bound for runs over many libraries (audit)
+  made.emplace_back(p.id, "resistor part " + p.id + " lacks t_knee/t_max; 70/155 degC assumed (typical thick film)");
+  return made.back().second;
+}
+
 class LoopCalculator {
 public:
   LoopCalculator(const GateLoop &loop, const Circuit &circuit, const PartLibrary &lib, const Layout *layout,
@@ -125,6 +137,11 @@ private:
   // A path that carries both edges is computed once: with drawn traces its layout inductance is
   // a partial-element sum over every pair of segments.
   const PathNumbers &cachedPathNumbers(std::size_t pathIndex) {
+    if (pathIndex < kInlinePaths) {
+      auto &slot = inlinePathCache_[pathIndex];
+      if (!slot) slot = pathNumbers(loop_.paths[pathIndex]);
+      return *slot;
+    }
     if (pathCache_.empty()) pathCache_.resize(loop_.paths.size());
     auto &slot = pathCache_[pathIndex];
     if (!slot) slot = pathNumbers(loop_.paths[pathIndex]);
@@ -286,7 +303,7 @@ private:
     Celsius tMax = p->tMax ? *p->tMax : Celsius(155.0);
     if ((!p->tKnee || !p->tMax) && std::find(partsWithoutKnee_.begin(), partsWithoutKnee_.end(), p) == partsWithoutKnee_.end()) {
       partsWithoutKnee_.push_back(p);
-      note(assumptions_, "resistor part " + p->id + " lacks t_knee/t_max; 70/155 degC assumed (typical thick film)");
+      note(assumptions_, kneeAssumption(*p));
     }
     l.deratedPower = deratedPower(*p->pRated, tKnee, tMax, tAmb);
     if (p->pulse.empty() || l.pulseWidth.si() <= 0.0) return;
@@ -309,7 +326,10 @@ private:
   LoopAnalysis a_;
   std::vector<std::string> assumptions_, missing_;
   std::vector<const Part *> partsWithoutKnee_;
-  std::vector<std::optional<PathNumbers>> pathCache_; ///< parallel to loop_.paths
+  // Path numbers by path index: loops have one to a few paths, kept inline; more go to the vector.
+  static constexpr std::size_t kInlinePaths = 4;
+  std::optional<PathNumbers> inlinePathCache_[kInlinePaths];
+  std::vector<std::optional<PathNumbers>> pathCache_;
 };
 
 } // namespace

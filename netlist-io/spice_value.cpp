@@ -7,6 +7,7 @@
 #include <charconv>
 #include <cmath>
 #include <cstddef>
+#include <cstdint>
 #include <system_error>
 
 namespace gateloop {
@@ -48,8 +49,43 @@ std::size_t scanNumber(std::string_view t) {
   return i;
 }
 
+/// Clinger's fast path: a mantissa of at most 15 significant digits is exact in a double, and so
+/// is 10^k for k <= 22, so one multiplication or division gives the correctly rounded result,
+/// the same double from_chars gives. Empty when the value needs the general conversion.
+std::optional<double> composeExactly(std::string_view mantissa, long exp10) {
+  static constexpr double kPow10[] = {1e0,  1e1,  1e2,  1e3,  1e4,  1e5,  1e6,  1e7,  1e8,  1e9,  1e10, 1e11,
+                                      1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22};
+  std::size_t i = 0;
+  bool negative = false;
+  if (i < mantissa.size() && (mantissa[i] == '+' || mantissa[i] == '-')) negative = mantissa[i++] == '-';
+  std::uint64_t digits = 0;
+  int significant = 0, fraction = 0;
+  bool point = false, anyDigit = false;
+  for (; i < mantissa.size(); ++i) {
+    const char c = mantissa[i];
+    if (c == '.') {
+      if (point) return std::nullopt;
+      point = true;
+      continue;
+    }
+    if (!isDigit(c)) return std::nullopt;
+    anyDigit = true;
+    if (point) ++fraction;
+    if (digits == 0 && c == '0') continue; // leading zeros are not significant
+    if (++significant > 15) return std::nullopt;
+    digits = digits * 10 + static_cast<std::uint64_t>(c - '0');
+  }
+  if (!anyDigit) return std::nullopt;
+  const long e = exp10 - fraction;
+  if (e < -22 || e > 22) return std::nullopt;
+  double v = static_cast<double>(digits);
+  v = e >= 0 ? v * kPow10[e] : v / kPow10[-e];
+  return negative ? -v : v;
+}
+
 /// Converts `mantissa` (sign, digits, optional point) times 10^exp10, correctly rounded.
 std::optional<double> compose(std::string_view mantissa, long exp10) {
+  if (auto exact = composeExactly(mantissa, exp10)) return exact;
   constexpr std::size_t kMaxBuffer = 512;
   char buf[kMaxBuffer + 32];
   std::size_t len = 0;

@@ -1,6 +1,7 @@
 // The per-loop stages run on several threads (checker/core/parallel.h). Whatever the thread count,
 // `gateloop check` must give the same report, byte for byte: tasks write only their own slots and
-// findings are merged in a fixed order. The deck has enough legs to be split among threads.
+// findings are merged in a fixed order. The deck has enough legs to be split among threads and
+// into several blocks of loops for the rules.
 #include "test_support.h"
 
 #include <gtest/gtest.h>
@@ -58,6 +59,14 @@ TEST(ParallelCheck, ReportIsTheSameForEveryThreadCount) {
   ASSERT_EQ(one.status, 1) << one.err;
   EXPECT_NE(one.out.find("\"gate-clamp\""), std::string::npos) << "the deck should produce findings to merge";
   EXPECT_NE(one.out.find("\"rg-range\""), std::string::npos) << "and findings of more than one rule";
+  // Per-loop rules run on blocks of loops; their notes about the design as a whole come once.
+  auto count = [&](const std::string &text) {
+    std::size_t n = 0;
+    for (auto at = one.out.find(text); at != std::string::npos; at = one.out.find(text, at + 1)) ++n;
+    return n;
+  };
+  EXPECT_EQ(count("no layout sidecar: every loop's damping"), 1u);
+  EXPECT_EQ(count("no layout sidecar gives the gate-loop lengths"), 1u);
   for (const char *threads : {"2", "3", "8"}) {
     RunResult many = runGateloop(dir.path(), "check gateloop.json --format json", env + threads);
     EXPECT_EQ(many.status, one.status) << threads << " threads";

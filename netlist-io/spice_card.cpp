@@ -3,6 +3,8 @@
 /// are found with memchr and tokens are views; nothing here allocates per token.
 #include "netlist-io/spice_card.h"
 
+#include "checker/core/text_util.h"
+
 #include <cstring>
 
 namespace gateloop {
@@ -21,7 +23,6 @@ struct StopTable {
 };
 constexpr StopTable kStops;
 
-char lowerAscii(char c) { return (c >= 'A' && c <= 'Z') ? static_cast<char>(c - 'A' + 'a') : c; }
 
 /// One physical line: [begin, contentEnd) without CR/LF; next = start of the following line.
 struct Line {

@@ -12,6 +12,7 @@
 /// See docs/spice-reader.md for the rules and decisions.
 #include "netlist-io/spice_reader.h"
 
+#include "checker/core/text_util.h"
 #include "netlist-io/spice_card.h"
 #include "netlist-io/spice_expression.h"
 #include "netlist-io/spice_value.h"
@@ -45,7 +46,6 @@ constexpr std::uint64_t kCountCap = std::uint64_t{1} << 62;
 constexpr std::size_t kMaxFileSize = std::numeric_limits<std::uint32_t>::max() - 1;
 const double kNaN = std::numeric_limits<double>::quiet_NaN();
 
-char lowerAscii(char c) { return (c >= 'A' && c <= 'Z') ? static_cast<char>(c - 'A' + 'a') : c; }
 bool isDigit(char c) { return c >= '0' && c <= '9'; }
 bool isIdentStart(char c) { return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || c == '_'; }
 bool isIdentChar(char c) { return isIdentStart(c) || isDigit(c); }
@@ -68,9 +68,6 @@ struct CiEq {
 template <class V> using CiMap = std::unordered_map<std::string_view, V, CiHash, CiEq>;
 using CiSet = std::unordered_set<std::string_view, CiHash, CiEq>;
 
-bool startsWithIgnoreCase(std::string_view s, std::string_view prefix) {
-  return s.size() >= prefix.size() && equalsIgnoreCase(s.substr(0, prefix.size()), prefix);
-}
 
 /// Shortest round-trip text of a number, exponent without `+` and leading zeros (`1e6`).
 std::string formatNumber(double v) {

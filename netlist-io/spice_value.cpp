@@ -4,6 +4,8 @@
 /// 2.2 * 1e-6 with its extra rounding.
 #include "netlist-io/spice_value.h"
 
+#include "checker/core/text_util.h"
+
 #include <charconv>
 #include <cmath>
 #include <cstddef>
@@ -14,7 +16,6 @@ namespace gateloop {
 namespace {
 
 bool isDigit(char c) { return c >= '0' && c <= '9'; }
-char lowerAscii(char c) { return (c >= 'A' && c <= 'Z') ? static_cast<char>(c - 'A' + 'a') : c; }
 
 /// Letters may follow a value (`Ohm`, `F`, `V`); non-ASCII bytes count as letters so that unit
 /// symbols such as the ohm sign are skipped like ASCII ones.

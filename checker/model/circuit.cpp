@@ -33,38 +33,6 @@ const char *elementKindName(ElementKind k) {
   return "generic";
 }
 
-std::string toLower(std::string_view s) {
-  std::string out(s);
-  for (char &ch : out)
-    if (ch >= 'A' && ch <= 'Z') ch = static_cast<char>(ch - 'A' + 'a');
-  return out;
-}
-
-std::uint64_t hashIgnoreCase(std::string_view s) noexcept {
-  // Eight bytes at a time; OR-ing 0x20 into every byte folds ASCII upper case onto lower case
-  // (and merges a few punctuation pairs, harmless for a hash), so names equal ignoring case hash
-  // equal.
-  constexpr std::uint64_t kFold = 0x2020202020202020ull;
-  constexpr std::uint64_t kMul = 0xff51afd7ed558ccdull;
-  std::uint64_t h = 0x9E3779B97F4A7C15ull ^ s.size();
-  std::size_t i = 0;
-  for (; i + 8 <= s.size(); i += 8) {
-    std::uint64_t w;
-    std::memcpy(&w, s.data() + i, 8);
-    h = (h ^ (w | kFold)) * kMul;
-    h ^= h >> 32;
-  }
-  if (i < s.size()) {
-    std::uint64_t w = 0;
-    std::memcpy(&w, s.data() + i, s.size() - i);
-    h = (h ^ (w | kFold)) * kMul;
-  }
-  h ^= h >> 33;
-  h *= kMul;
-  h ^= h >> 33;
-  return h;
-}
-
 std::string_view NameStorage::store(std::string_view s) {
   if (s.empty()) return {};
   if (s.size() > left_) {
@@ -77,7 +45,6 @@ std::string_view NameStorage::store(std::string_view s) {
   std::string_view stored(next_, s.size());
   next_ += s.size();
   left_ -= s.size();
-  used_ += s.size();
   return stored;
 }
 

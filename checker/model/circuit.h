@@ -7,6 +7,7 @@
 
 #include "checker/core/huge_pages.h"
 #include "checker/core/source_location.h"
+#include "checker/core/text_util.h"
 
 #include <algorithm>
 #include <cmath>
@@ -82,38 +83,17 @@ struct Net {
   bool global = false;     ///< declared .global
 };
 
-/// Lower-cases ASCII letters; SPICE names are case-insensitive.
-std::string toLower(std::string_view s);
-
-inline bool equalsIgnoreCase(std::string_view a, std::string_view b) {
-  if (a.size() != b.size()) return false;
-  for (std::size_t i = 0; i < a.size(); ++i) {
-    char x = a[i], y = b[i];
-    if (x == y) continue;
-    if (x >= 'A' && x <= 'Z') x = static_cast<char>(x - 'A' + 'a');
-    if (y >= 'A' && y <= 'Z') y = static_cast<char>(y - 'A' + 'a');
-    if (x != y) return false;
-  }
-  return true;
-}
-
-/// Hash of a name that ignores ASCII case, so "GH_1" and "gh_1" hash equal. Readers that keep
-/// their own caches of names use the same function to hand the hash on to Circuit::net.
-std::uint64_t hashIgnoreCase(std::string_view s) noexcept;
-
 /// Append-only storage for names. Blocks never move, so views handed out stay valid for the
 /// storage's life; one allocation per block instead of one per name.
 class NameStorage {
 public:
   std::string_view store(std::string_view s);
-  std::size_t bytesInUse() const { return used_; }
 
 private:
   static constexpr std::size_t kBlockBytes = std::size_t{1} << 20;
   std::vector<std::unique_ptr<char[]>> blocks_;
   char *next_ = nullptr;
   std::size_t left_ = 0;
-  std::size_t used_ = 0;
 };
 
 /// Open-addressing index from case-insensitive names to ids (net or component numbers). It keeps

@@ -14,7 +14,6 @@ namespace gateloop {
 
 namespace {
 
-char lower(char c) { return c >= 'A' && c <= 'Z' ? static_cast<char>(c - 'A' + 'a') : c; }
 
 std::string unknownPartMessage(const std::string &id, const PartLibrary &lib, std::string_view element = {}) {
   std::string msg = "unknown part \"" + id + "\"";
@@ -78,7 +77,7 @@ bool globMatch(std::string_view pattern, std::string_view text) {
   // Iterative matcher with one backtrack point: linear in practice, never exponential.
   std::size_t p = 0, t = 0, starP = std::string_view::npos, starT = 0;
   while (t < text.size()) {
-    if (p < pattern.size() && (pattern[p] == '?' || lower(pattern[p]) == lower(text[t]))) {
+    if (p < pattern.size() && (pattern[p] == '?' || lowerAscii(pattern[p]) == lowerAscii(text[t]))) {
       ++p, ++t;
     } else if (p < pattern.size() && pattern[p] == '*') {
       starP = p++;
@@ -154,7 +153,7 @@ void resolveParts(Circuit &circuit, const PartLibrary &lib,
   auto matches = [](const Pattern &p, std::string_view name) {
     switch (p.form) {
     case Pattern::Form::Exact: return equalsIgnoreCase(p.text, name);
-    case Pattern::Form::Prefix: return name.size() >= p.text.size() && equalsIgnoreCase(p.text, name.substr(0, p.text.size()));
+    case Pattern::Form::Prefix: return startsWithIgnoreCase(name, p.text);
     case Pattern::Form::Glob: break;
     }
     return globMatch(p.text, name);

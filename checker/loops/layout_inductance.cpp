@@ -33,18 +33,17 @@ const NetRouting *pairedBy(const Layout &layout, const std::string &net) {
 
 class Accumulator {
 public:
-  Accumulator(const Layout *layout, const OperatingPoint &op) : layout_(layout), op_(op) {}
+  Accumulator(const Layout &layout, const OperatingPoint &op) : layout_(layout), op_(op) {}
 
   void addNet(std::string_view netName) {
     const std::string net(netName);
     if (done_.count(toLower(net))) return;
     done_.insert(toLower(net));
-    if (!layout_) return;
     if (const WireLead *w = wireFor(net)) return addWire(*w);
-    const NetRouting *r = layout_->routing(net);
+    const NetRouting *r = layout_.routing(net);
     const NetRouting *partner = nullptr;
-    if (r && r->ret.kind == NetReturn::Kind::Pair) partner = layout_->routing(r->ret.target);
-    else if (const NetRouting *by = pairedBy(*layout_, net)) {
+    if (r && r->ret.kind == NetReturn::Kind::Pair) partner = layout_.routing(r->ret.target);
+    else if (const NetRouting *by = pairedBy(layout_, net)) {
       partner = r;
       r = by;
     }
@@ -53,11 +52,8 @@ public:
     out_.missing.push_back("net " + net + " is not in the layout sidecar");
   }
 
-  NetsInductance finish(bool haveLayout) {
-    if (!haveLayout) {
-      out_.method = "none";
-      out_.missing.push_back(kNoLayoutSidecarNote);
-    } else if (methods_.empty()) {
+  NetsInductance finish() {
+    if (methods_.empty()) {
       out_.method = "none";
     } else if (methods_.size() == 1) {
       out_.method = *methods_.begin();
@@ -69,7 +65,7 @@ public:
 
 private:
   const WireLead *wireFor(const std::string &net) const {
-    for (const auto &w : layout_->wires)
+    for (const auto &w : layout_.wires)
       for (const auto &n : w.nets)
         if (equalsIgnoreCase(n, net)) return &w;
     return nullptr;
@@ -108,7 +104,7 @@ private:
                                    eng(gap.si(), "m") + " (one trace width) assumed");
       perLength = coplanarStripsInductance(*width, gap);
     } else {
-      auto za = layerZ(*layout_, a.layer), zb = layerZ(*layout_, b.layer);
+      auto za = layerZ(layout_, a.layer), zb = layerZ(layout_, b.layer);
       if (!za || !zb) return addAssumed(a.net + "/" + b.net, *len, "layer depth unknown");
       perLength = stackedPairInductance(*width, Meter(std::fabs(za->si() - zb->si())));
     }
@@ -123,11 +119,11 @@ private:
       return;
     }
     if (r.ret.kind == NetReturn::Kind::Plane && r.width) {
-      auto zTrace = layerZ(*layout_, r.layer), zPlane = layerZ(*layout_, r.ret.target);
+      auto zTrace = layerZ(layout_, r.layer), zPlane = layerZ(layout_, r.ret.target);
       if (zTrace && zPlane && std::fabs(zTrace->si() - zPlane->si()) > 0) {
         // Trace over a plane: Hammerstad-Jensen microstrip (physics.md 1.8), h = layer distance.
         Meter h(std::fabs(zTrace->si() - zPlane->si()));
-        HenryPerMeter perLength = microstripInductanceHammerstadJensen(*r.width, h, layerCopper(*layout_, r.layer));
+        HenryPerMeter perLength = microstripInductanceHammerstadJensen(*r.width, h, layerCopper(layout_, r.layer));
         out_.inductance += Henry(perLength.si() * r.length->si());
         addLength(*r.length);
         methods_.insert("nets");
@@ -146,7 +142,7 @@ private:
     methods_.insert("assumed");
   }
 
-  const Layout *layout_;
+  const Layout &layout_;
   const OperatingPoint &op_;
   NetsInductance out_;
   std::set<std::string> done_;
@@ -186,15 +182,20 @@ std::optional<NetsInductance> traceInductance(const std::vector<NetId> &outgoing
 
 NetsInductance layoutInductance(const std::vector<NetId> &outgoing, NetId ref, const Circuit &circuit,
                                 const Layout *layout, const OperatingPoint &op) {
-  if (layout && !layout->traces.empty()) {
+  if (!layout) {
+    NetsInductance none;
+    none.method = "none";
+    none.missing.push_back("no layout sidecar: the loop inductance covers part-internal inductance only");
+    return none;
+  }
+  if (!layout->traces.empty()) {
     if (auto fromTraces = traceInductance(outgoing, ref, circuit, *layout)) return std::move(*fromTraces);
   }
-  Accumulator acc(layout, op);
-  if (!layout) return acc.finish(false);
+  Accumulator acc(*layout, op);
   for (NetId n : outgoing)
     if (n != kNone) acc.addNet(circuit.netAt(n).name);
   if (ref != kNone) acc.addNet(circuit.netAt(ref).name);
-  return acc.finish(layout != nullptr);
+  return acc.finish();
 }
 
 } // namespace gateloop

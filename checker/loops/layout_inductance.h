@@ -30,10 +30,6 @@ struct NetsInductance {
   std::vector<std::string> missing;
 };
 
-/// What the loop's notes say when a design has no layout sidecar at all.
-inline constexpr const char *kNoLayoutSidecarNote =
-    "no layout sidecar: the loop inductance covers part-internal inductance only";
-
 /// Inductance of the loop formed by \p outgoing (the nets from the driver output to the gate) and
 /// the reference net \p ref. When the sidecar draws traces for the outgoing nets, the closed loop
 /// is built from them and computed by partial inductances; otherwise each net is summed from its

@@ -111,12 +111,6 @@ private:
   }
 
   void loopLength() {
-    if (!layout_) { // as layoutInductance() says it, without building its lists for every loop
-      a_.inductanceMethod = "none";
-      a_.lLayout = Henry(0.0);
-      note(missing_, kNoLayoutSidecarNote);
-      return;
-    }
     std::vector<NetId> outgoing;
     for (const auto &p : loop_.paths)
       for (NetId n : p.nets)

@@ -68,7 +68,6 @@ struct CiEq {
 template <class V> using CiMap = std::unordered_map<std::string_view, V, CiHash, CiEq>;
 using CiSet = std::unordered_set<std::string_view, CiHash, CiEq>;
 
-
 /// Shortest round-trip text of a number, exponent without `+` and leading zeros (`1e6`).
 std::string formatNumber(double v) {
   char buf[64];
@@ -499,9 +498,7 @@ private:
   /// read verbatim from it are handed on without a copy.
   std::string_view scanning_;
   Circuit::NameIn whereIs(std::string_view name) const {
-    return name.data() >= scanning_.data() && name.data() + name.size() <= scanning_.data() + scanning_.size()
-               ? Circuit::NameIn::keptText
-               : Circuit::NameIn::anywhere;
+    return viewsInto(scanning_, name) ? Circuit::NameIn::keptText : Circuit::NameIn::anywhere;
   }
   std::uint64_t emitted_ = 0;
   bool capReported_ = false;

@@ -75,5 +75,4 @@ std::uint64_t hashIgnoreCase(std::string_view s) noexcept {
   return h;
 }
 
-
 } // namespace gateloop

@@ -24,6 +24,11 @@ inline bool startsWithIgnoreCase(std::string_view s, std::string_view prefix) {
   return s.size() >= prefix.size() && equalsIgnoreCase(s.substr(0, prefix.size()), prefix);
 }
 
+/// Whether \p part lies inside \p text's characters (a view into it, not an equal copy).
+inline bool viewsInto(std::string_view text, std::string_view part) {
+  return part.data() >= text.data() && part.data() + part.size() <= text.data() + text.size();
+}
+
 /// Lower-cases ASCII letters.
 std::string toLower(std::string_view s);
 

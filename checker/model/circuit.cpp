@@ -85,7 +85,7 @@ std::string_view Circuit::keepText(std::string text) {
 
 bool Circuit::inKeptText(std::string_view name) const {
   for (const auto &t : keptTexts_)
-    if (name.data() >= t->data() && name.data() + name.size() <= t->data() + t->size()) return true;
+    if (viewsInto(*t, name)) return true;
   return false;
 }
 

@@ -9,7 +9,6 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
-#include <map>
 
 namespace gateloop {
 
@@ -257,7 +256,7 @@ private:
   // the sum of both edges (physics.md 3.1, shared resistor).
   void shareResistorsAcrossEdges() {
     // A loop has a handful of resistors: sums by scanning, no map.
-    auto powerOn = [](const std::vector<ResistorLoad> &loads, ComponentId id, bool &found) {
+    auto powerOf = [](const std::vector<ResistorLoad> &loads, ComponentId id, bool &found) {
       double sum = 0.0;
       for (const auto &l : loads)
         if (l.id == id) {
@@ -270,7 +269,7 @@ private:
     for (EdgeAnalysis *e : {&a_.on, &a_.off})
       for (auto &l : e->loads) {
         bool onOn = false, onOff = false;
-        double sum = powerOn(a_.on.loads, l.id, onOn) + powerOn(a_.off.loads, l.id, onOff);
+        double sum = powerOf(a_.on.loads, l.id, onOn) + powerOf(a_.off.loads, l.id, onOff);
         total.push_back(onOn && onOff ? sum : -1.0);
       }
     std::size_t k = 0;
@@ -295,10 +294,7 @@ private:
     if (!op_.tAmbient) note(assumptions_, "operating.t_ambient not given; 25 degC assumed for resistor derating");
     Celsius tKnee = p->tKnee ? *p->tKnee : Celsius(70.0);
     Celsius tMax = p->tMax ? *p->tMax : Celsius(155.0);
-    if ((!p->tKnee || !p->tMax) && std::find(partsWithoutKnee_.begin(), partsWithoutKnee_.end(), p) == partsWithoutKnee_.end()) {
-      partsWithoutKnee_.push_back(p);
-      note(assumptions_, kneeAssumption(*p));
-    }
+    if (!p->tKnee || !p->tMax) note(assumptions_, kneeAssumption(*p));
     l.deratedPower = deratedPower(*p->pRated, tKnee, tMax, tAmb);
     if (p->pulse.empty() || l.pulseWidth.si() <= 0.0) return;
     // Beyond the curve the continuous rating applies; repetitivePulseLimit derates it for ambient.
@@ -319,7 +315,6 @@ private:
   const Part *drv_;
   LoopAnalysis a_;
   std::vector<std::string> assumptions_, missing_;
-  std::vector<const Part *> partsWithoutKnee_;
   // Path numbers by path index: loops have one to a few paths, kept inline; more go to the vector.
   static constexpr std::size_t kInlinePaths = 4;
   std::optional<PathNumbers> inlinePathCache_[kInlinePaths];

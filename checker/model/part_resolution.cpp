@@ -14,7 +14,6 @@ namespace gateloop {
 
 namespace {
 
-
 std::string unknownPartMessage(const std::string &id, const PartLibrary &lib, std::string_view element = {}) {
   std::string msg = "unknown part \"" + id + "\"";
   if (!element.empty()) msg.append(" on ").append(element);
